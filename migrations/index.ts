@@ -1,0 +1,20 @@
+import type { Knex } from 'knex';
+import * as m20261202000100 from './20261202000100_sessions_and_audit';
+
+/**
+ * Every migration, in order. Knex's directory loader cannot import .ts files under vitest,
+ * so the list is explicit: add each new migration here.
+ */
+const migrations: Record<string, Knex.Migration> = {
+  '20261202000100_sessions_and_audit': m20261202000100,
+};
+
+export const migrationSource: Knex.MigrationSource<string> = {
+  getMigrations: async () => Object.keys(migrations).sort(),
+  getMigrationName: (name) => name,
+  getMigration: async (name) => {
+    const migration = migrations[name];
+    if (!migration) throw new Error(`Unknown migration ${name}`);
+    return migration;
+  },
+};

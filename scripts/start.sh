@@ -1,0 +1,47 @@
+#!/usr/bin/env bash
+# The start command: install, start PostgreSQL, migrate, seed, build, start every service on loopback.
+# Ctrl-C stops everything it started, PostgreSQL included.
+source "$(dirname "${BASH_SOURCE[0]}")/lib/bootstrap.sh"
+cd "$EBBTIDE_ROOT"
+
+API_PORT="${API_PORT:-4610}"
+DB_NAME="${EBBTIDE_DB:-ebbtide}"
+
+ensure_dependencies
+bash scripts/db.sh start
+export DATABASE_URL="$(bash scripts/db.sh url "$DB_NAME")"
+
+children=()
+cleanup() {
+  trap - INT TERM EXIT
+  log "stopping services"
+  for pid in "${children[@]}"; do kill -TERM "$pid" 2>/dev/null || true; done
+  for pid in "${children[@]}"; do wait "$pid" 2>/dev/null || true; done
+  bash scripts/db.sh stop || true
+}
+trap cleanup INT TERM EXIT
+
+pnpm exec tsx scripts/db-migrate.ts create-db "$DB_NAME"
+pnpm exec tsx scripts/db-migrate.ts latest
+pnpm exec tsx scripts/seed.ts
+log "building the web client"
+pnpm --filter @ebbtide/web exec vite build --logLevel warn
+
+export NODE_ENV="${NODE_ENV:-development}"
+export API_HOST=127.0.0.1 API_PORT WEB_DIST="$EBBTIDE_ROOT/apps/web/dist"
+"$EBBTIDE_ROOT/node_modules/.bin/tsx" apps/api/src/main.ts &
+children+=($!)
+
+for _ in $(seq 1 100); do
+  curl -fsS "http://127.0.0.1:$API_PORT/api/health" >/dev/null 2>&1 && break
+  sleep 0.2
+done
+
+cat <<MSG
+
+  Ebbtide is running.
+    Open:  http://127.0.0.1:$API_PORT/
+    Stop:  Ctrl-C (stops the API and PostgreSQL)
+
+MSG
+wait

@@ -1,0 +1,47 @@
+import { mkdirSync, mkdtempSync, rmSync } from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { chromium, type Browser, type BrowserContext } from 'playwright-core';
+
+export const screenshotDir = path.resolve(
+  path.dirname(fileURLToPath(import.meta.url)),
+  '../../test-output/screenshots',
+);
+
+/** Debian's Chromium, headless, with the flags that keep it off the (closed) network. */
+export async function launchBrowser(): Promise<{
+  browser: Browser;
+  context: BrowserContext;
+  close: () => Promise<void>;
+}> {
+  const userDataDir = mkdtempSync(path.join(os.tmpdir(), 'ebbtide-chromium-'));
+  mkdirSync(screenshotDir, { recursive: true });
+  const browser = await chromium.launch({
+    executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
+    headless: true,
+    args: [
+      '--no-sandbox',
+      '--disable-gpu',
+      '--disable-quic',
+      '--no-first-run',
+      '--disable-background-networking',
+      '--disable-component-update',
+      '--disable-sync',
+      `--user-data-dir=${userDataDir}`,
+    ],
+  });
+  const context = await browser.newContext({
+    viewport: { width: 1280, height: 800 },
+    locale: 'en-GB',
+  });
+  return {
+    browser,
+    context,
+    close: async () => {
+      await context.close();
+      await browser.close();
+      rmSync(userDataDir, { recursive: true, force: true });
+    },
+  };
+}
