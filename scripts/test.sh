@@ -57,7 +57,8 @@ read -r tests_passed tests_failed < <(node -e '
   try {
     const r = JSON.parse(fs.readFileSync("test-output/vitest.json", "utf8"));
     p = r.numPassedTests; f = r.numFailedTests + (r.numRuntimeErrorTests || 0);
-    for (const s of r.testResults) if (s.status === "failed" && s.assertionResults.length === 0) f++;
+    for (const s of r.testResults)
+      if (s.status === "failed" && !s.assertionResults.some((a) => a.status === "failed")) f++;
   } catch { f = 1; }
   console.log(p, f);
 ')

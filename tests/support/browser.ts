@@ -1,5 +1,4 @@
-import { mkdirSync, mkdtempSync, rmSync } from 'node:fs';
-import os from 'node:os';
+import { mkdirSync } from 'node:fs';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { chromium, type Browser, type BrowserContext } from 'playwright-core';
@@ -9,13 +8,15 @@ export const screenshotDir = path.resolve(
   '../../test-output/screenshots',
 );
 
-/** Debian's Chromium, headless, with the flags that keep it off the (closed) network. */
+/**
+ * Debian's Chromium, headless, with the flags that keep it off the (closed) network.
+ * Playwright gives every launch a fresh temporary profile of its own.
+ */
 export async function launchBrowser(): Promise<{
   browser: Browser;
   context: BrowserContext;
   close: () => Promise<void>;
 }> {
-  const userDataDir = mkdtempSync(path.join(os.tmpdir(), 'ebbtide-chromium-'));
   mkdirSync(screenshotDir, { recursive: true });
   const browser = await chromium.launch({
     executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
@@ -28,7 +29,6 @@ export async function launchBrowser(): Promise<{
       '--disable-background-networking',
       '--disable-component-update',
       '--disable-sync',
-      `--user-data-dir=${userDataDir}`,
     ],
   });
   const context = await browser.newContext({
@@ -41,7 +41,6 @@ export async function launchBrowser(): Promise<{
     close: async () => {
       await context.close();
       await browser.close();
-      rmSync(userDataDir, { recursive: true, force: true });
     },
   };
 }

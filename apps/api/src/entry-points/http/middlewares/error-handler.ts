@@ -38,7 +38,13 @@ export function toAppError(error: unknown): AppError {
 }
 
 export const notFoundHandler: RequestHandler = (req, _res, next) => {
-  next(new AppError('route-not-found', `No route for ${req.method} ${req.path}`, 404));
+  next(
+    new AppError(
+      'route-not-found',
+      `No route for ${req.method} ${req.originalUrl.split('?')[0]}`,
+      404,
+    ),
+  );
 };
 
 /** The one error middleware, registered last. Bodies are always `{ code, message, ... }`. */
