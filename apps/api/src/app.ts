@@ -7,7 +7,7 @@ import type { Logger } from 'pino';
 import type { AppConfig } from './config';
 import type { Db } from './data-access/db';
 import { errorHandler, notFoundHandler } from './entry-points/http/middlewares/error-handler';
-import { healthRoutes } from './entry-points/http/routes/health';
+import { registerRoutes } from './entry-points/http/routes/index';
 
 export interface AppDeps {
   config: AppConfig;
@@ -16,7 +16,8 @@ export interface AppDeps {
 }
 
 /** Builds the Express app without listening, so supertest can drive it. */
-export function createApp({ config, db, logger }: AppDeps): Express {
+export function createApp(deps: AppDeps): Express {
+  const { config, logger } = deps;
   const app = express();
   app.disable('x-powered-by');
   app.set('trust proxy', 'loopback');
@@ -37,7 +38,7 @@ export function createApp({ config, db, logger }: AppDeps): Express {
   app.use(express.json({ limit: '2mb' }));
 
   const api = express.Router();
-  api.use(healthRoutes(db));
+  registerRoutes(api, deps);
   api.use(notFoundHandler);
   app.use('/api', api);
 
