@@ -8,6 +8,8 @@ API_PORT="${API_PORT:-4610}"
 DB_NAME="${EBBTIDE_DB:-ebbtide}"
 
 ensure_dependencies
+pg_was_running=0
+bash scripts/db.sh status >/dev/null 2>&1 && pg_was_running=1
 bash scripts/db.sh start
 export DATABASE_URL="$(bash scripts/db.sh url "$DB_NAME")"
 
@@ -17,7 +19,8 @@ cleanup() {
   log "stopping services"
   for pid in "${children[@]}"; do kill -TERM "$pid" 2>/dev/null || true; done
   for pid in "${children[@]}"; do wait "$pid" 2>/dev/null || true; done
-  bash scripts/db.sh stop || true
+  # Stop PostgreSQL only if this command started it.
+  [ "$pg_was_running" = 1 ] || bash scripts/db.sh stop || true
 }
 trap cleanup INT TERM EXIT
 
