@@ -5,3 +5,26 @@
  */
 export { creatinineMgDlFromUmolL, creatinineUmolLFromMgDl } from './covariates/creatinine-units';
 export { EngineError } from './errors';
+export type { Dose, Elimination, ModelStructure, PkParameters, Route } from './types';
+export {
+  simulate,
+  concentrationsAt,
+  defaultSimulateOptions,
+  type SimulateInput,
+  type SimulateOptions,
+  type SimulateOutcome,
+  type SimulateResult,
+} from './simulate';
+export {
+  resolveModel,
+  macroRateConstants,
+  fastestRate,
+  type ResolvedModel,
+} from './models/parameters';
+export {
+  rk4Advance,
+  createRk4Workspace,
+  RK4_STABILITY_LIMIT,
+  type OdeSystem,
+  type Rk4Workspace,
+} from './integrator/rk4';
