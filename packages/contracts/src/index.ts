@@ -4,3 +4,13 @@
  */
 export * from './errors';
 export * from './roles';
+export * from './pagination';
+export * from './patients';
+export * from './covariates';
+export * from './courses';
+export * from './drug-models';
+export * from './doses';
+export * from './levels';
+export * from './engine';
+export * from './imports';
+export * from './caseload';
