@@ -28,3 +28,19 @@ export {
   type OdeSystem,
   type Rk4Workspace,
 } from './integrator/rk4';
+export {
+  closedFormConcentrations,
+  closedFormAuc,
+  closedFormPieces,
+  closedFormSteadyState,
+  closedFormSteadyStateAuc,
+  type ExpTerm,
+  type RepeatedDose,
+  type ResponsePiece,
+} from './closed-form/linear';
+export {
+  michaelisMentenSteadyState,
+  michaelisMentenRateForTarget,
+  michaelisMentenTime90,
+  michaelisMentenWashoutTime,
+} from './closed-form/michaelis-menten';

@@ -219,7 +219,8 @@ function gridIndex(grid: Float64Array, t: number): number {
 
 /**
  * Step-doubling (Richardson) error estimate on a coarser companion (Hairer, Nørsett, Wanner 1993, §II.4):
- * the companion integrates only between events (plus the first and last output time) with nominal steps
+ * the companion integrates between events, the first and last output time and up to `COMPANION_CHECKS`
+ * evenly picked output times (where the error is compared), with nominal steps
  * H = 4h and H/2 = 2h (each segment split into m and exactly 2m equal steps). For RK4 (order 4) the error of
  * the H/2 run is ≈ (y_{H/2} − y_H)/(2⁴ − 1) and the main run, whose steps are ≤ h = (H/2)/2, has about
  * 1/16 of that. We report max |C_{H/2} − C_H| / 15 / 16 over the companion's points. Where the main run's
@@ -229,8 +230,12 @@ function errorEstimateOf(
   plan: Plan,
   first: number,
   last: number,
+  outputTimes: readonly number[],
 ): { estimate: number; steps: number } {
-  const { grid, eventAt } = mergeGrid(plan.events.times, [first, last]);
+  const checks = [first, last];
+  const stride = Math.max(1, Math.ceil(outputTimes.length / COMPANION_CHECKS));
+  for (let i = 0; i < outputTimes.length; i += stride) checks.push(outputTimes[i] as number);
+  const { grid, eventAt } = mergeGrid(plan.events.times, checks);
   const g = grid.length;
   const coarseC = new Float64Array(g);
   const fineC = new Float64Array(g);
@@ -247,6 +252,9 @@ function errorEstimateOf(
   }
   return { estimate: est, steps };
 }
+
+/** Most output times the error companion also stops at to compare its two runs (besides events). */
+const COMPANION_CHECKS = 64;
 
 /** Like integrateGrid with step h, but every segment takes exactly twice the steps the h-run takes. */
 function integrateDoubled(
@@ -392,7 +400,7 @@ export function simulate(input: SimulateInput): SimulateResult {
   let errorEstimate: number | null = null;
   let errorSteps = 0;
   if (o.estimateError) {
-    const e = errorEstimateOf(plan, first, last);
+    const e = errorEstimateOf(plan, first, last, outputTimes);
     errorEstimate = e.estimate;
     errorSteps = e.steps;
   }
