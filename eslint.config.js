@@ -22,7 +22,13 @@ export default tseslint.config(
   },
   {
     files: ['packages/kinetics/src/**/*.ts'],
-    ignores: ['packages/kinetics/src/cli/**', 'packages/kinetics/src/**/__tests__/**'],
+    ignores: [
+      'packages/kinetics/src/cli/**',
+      'packages/kinetics/src/**/__tests__/**',
+      // Node-only entry (@ebbtide/kinetics/node) and its worker pool.
+      'packages/kinetics/src/node.ts',
+      'packages/kinetics/src/pta/node-pool.ts',
+    ],
     rules: {
       // The engine is pure: no Node built-ins, no I/O.
       'no-restricted-imports': [
