@@ -1,5 +1,6 @@
 import type { Knex } from 'knex';
 import * as m20261202000100 from './20261202000100_sessions_and_audit';
+import * as m20261202010000 from './20261202010000_users';
 
 /**
  * Every migration, in order. Knex's directory loader cannot import .ts files under vitest,
@@ -7,6 +8,7 @@ import * as m20261202000100 from './20261202000100_sessions_and_audit';
  */
 const migrations: Record<string, Knex.Migration> = {
   '20261202000100_sessions_and_audit': m20261202000100,
+  '20261202010000_users': m20261202010000,
 };
 
 export const migrationSource: Knex.MigrationSource<string> = {

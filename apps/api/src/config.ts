@@ -1,5 +1,14 @@
 import { z } from 'zod';
 
+/** Development-only defaults; refused when NODE_ENV=production. */
+export const DEV_DEFAULTS = {
+  oidcIssuer: 'http://127.0.0.1:4611',
+  oidcClientId: 'ebbtide-api',
+  oidcClientSecret: 'dev-only-client-secret-not-for-production',
+  sessionSecret: 'dev-only-session-secret-not-for-production-0000',
+  idpEventSecret: 'dev-only-idp-event-secret-not-for-production',
+} as const;
+
 /**
  * The API's whole configuration, read once from the environment and validated.
  * Nothing else in the API reads process.env.
@@ -17,9 +26,44 @@ const configSchema = z.object({
   logLevel: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
   /** WEB_DIST: folder of the built client, served on the same origin when present. */
   webDist: z.string().optional(),
+  /**
+   * PUBLIC_URL: the origin the browser uses for the app (e.g. https://ebbtide.hospital.example).
+   * The OIDC redirect URI is PUBLIC_URL + /auth/callback; cookies are Secure when it is https.
+   * When unset, the address the API actually listens on is used (development and tests).
+   */
+  publicUrl: z.string().url().optional(),
+  /** CSRF_TRUSTED_ORIGINS: comma-separated extra origins allowed to send state-changing requests (e.g. the Vite dev server). */
+  trustedOrigins: z
+    .union([z.string(), z.array(z.string())])
+    .default('http://127.0.0.1:5173,http://localhost:5173')
+    .transform((s) => (Array.isArray(s) ? s : s.split(',')).map((o) => o.trim()).filter(Boolean)),
+  /** OIDC_ISSUER: the identity provider's issuer URL (discovery at /.well-known/openid-configuration). */
+  oidcIssuer: z.string().url().default(DEV_DEFAULTS.oidcIssuer),
+  /** OIDC_CLIENT_ID: this API's client id at the provider. */
+  oidcClientId: z.string().min(1).default(DEV_DEFAULTS.oidcClientId),
+  /** OIDC_CLIENT_SECRET: this API's client secret (client_secret_basic). */
+  oidcClientSecret: z.string().min(1).default(DEV_DEFAULTS.oidcClientSecret),
+  /** OIDC_SCOPES: scopes requested at sign-in. */
+  oidcScopes: z.string().default('openid profile email roles'),
+  /** OIDC_ROLES_CLAIM: the claim in the ID token (or userinfo) that carries the roles. */
+  oidcRolesClaim: z.string().default('roles'),
+  /** SESSION_SECRET: signs the session cookie; at least 32 characters. Comma-separate to rotate (first signs). */
+  sessionSecret: z.string().min(32).default(DEV_DEFAULTS.sessionSecret),
+  /** SESSION_COOKIE_NAME: must differ from the provider's cookie names. */
+  sessionCookieName: z.string().default('ebbtide.sid'),
+  /** SESSION_MAX_AGE_MINUTES: how long a session lives after sign-in (default one 8-hour shift). */
+  sessionMaxAgeMinutes: z.coerce
+    .number()
+    .int()
+    .min(1)
+    .max(60 * 24)
+    .default(480),
+  /** IDP_EVENT_SECRET: shared secret with which the local provider signs failed sign-in events it reports. */
+  idpEventSecret: z.string().min(16).default(DEV_DEFAULTS.idpEventSecret),
 });
 
 export type AppConfig = z.infer<typeof configSchema>;
+export type AppConfigInput = z.input<typeof configSchema>;
 
 const envNames: Record<keyof AppConfig, string> = {
   nodeEnv: 'NODE_ENV',
@@ -28,12 +72,43 @@ const envNames: Record<keyof AppConfig, string> = {
   databaseUrl: 'DATABASE_URL',
   logLevel: 'LOG_LEVEL',
   webDist: 'WEB_DIST',
+  publicUrl: 'PUBLIC_URL',
+  trustedOrigins: 'CSRF_TRUSTED_ORIGINS',
+  oidcIssuer: 'OIDC_ISSUER',
+  oidcClientId: 'OIDC_CLIENT_ID',
+  oidcClientSecret: 'OIDC_CLIENT_SECRET',
+  oidcScopes: 'OIDC_SCOPES',
+  oidcRolesClaim: 'OIDC_ROLES_CLAIM',
+  sessionSecret: 'SESSION_SECRET',
+  sessionCookieName: 'SESSION_COOKIE_NAME',
+  sessionMaxAgeMinutes: 'SESSION_MAX_AGE_MINUTES',
+  idpEventSecret: 'IDP_EVENT_SECRET',
 };
+
+/** In production every secret must be set explicitly and the provider must not be the local one. */
+function productionProblems(config: AppConfig): string[] {
+  if (config.nodeEnv !== 'production') return [];
+  const problems: string[] = [];
+  for (const key of [
+    'oidcClientSecret',
+    'sessionSecret',
+    'idpEventSecret',
+    'oidcIssuer',
+  ] as const) {
+    if (config[key] === DEV_DEFAULTS[key]) {
+      problems.push(`${envNames[key]}: the development default is refused in production`);
+    }
+  }
+  if (!config.publicUrl) problems.push('PUBLIC_URL: required in production');
+  else if (!config.publicUrl.startsWith('https://'))
+    problems.push('PUBLIC_URL: must be https in production');
+  return problems;
+}
 
 /** Reads and validates the configuration; throws listing every bad key. */
 export function loadConfig(
   env: Record<string, string | undefined> = process.env,
-  overrides: Partial<AppConfig> = {},
+  overrides: Partial<AppConfigInput> = {},
 ): AppConfig {
   const raw: Record<string, unknown> = {};
   for (const [key, name] of Object.entries(envNames)) {
@@ -47,5 +122,12 @@ export function loadConfig(
       .join('; ');
     throw new Error(`Invalid configuration: ${problems}`);
   }
+  const problems = productionProblems(parsed.data);
+  if (problems.length) throw new Error(`Invalid configuration: ${problems.join('; ')}`);
   return parsed.data;
+}
+
+/** The origin the browser uses: PUBLIC_URL, or else the loopback address the API listens on. */
+export function publicOrigin(config: AppConfig): string {
+  return new URL(config.publicUrl ?? `http://${config.host}:${config.port}`).origin;
 }

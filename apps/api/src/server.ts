@@ -1,7 +1,7 @@
-import type { Server } from 'node:http';
+import { createServer, type Server } from 'node:http';
 import type { AddressInfo } from 'node:net';
 import { createApp } from './app';
-import { loadConfig, type AppConfig } from './config';
+import { loadConfig, type AppConfigInput } from './config';
 import { createDb } from './data-access/db';
 import { createLogger } from './lib/logger';
 
@@ -11,23 +11,30 @@ export interface RunningServer {
   stop: () => Promise<void>;
 }
 
-/** Validates config, builds the app and listens (port 0 picks a free port). */
-export async function startServer(overrides: Partial<AppConfig> = {}): Promise<RunningServer> {
-  const config = loadConfig(process.env, overrides);
+/**
+ * Validates config, listens (port 0 picks a free port), then builds the app, so that without
+ * PUBLIC_URL the redirect URI and trusted origin are the address actually listened on.
+ */
+export async function startServer(overrides: Partial<AppConfigInput> = {}): Promise<RunningServer> {
+  const initial = loadConfig(process.env, overrides);
+  const server: Server = createServer();
+  await new Promise<void>((resolve, reject) => {
+    server.once('error', reject);
+    server.listen(initial.port, initial.host, () => resolve());
+  });
+  const { port } = server.address() as AddressInfo;
+  const config = loadConfig(process.env, { ...overrides, port });
   const logger = createLogger(config);
   const db = createDb(config.databaseUrl);
   const app = createApp({ config, db, logger });
-  const server: Server = await new Promise((resolve, reject) => {
-    const s = app.listen(config.port, config.host, () => resolve(s));
-    s.on('error', reject);
-  });
-  const { port } = server.address() as AddressInfo;
+  server.on('request', app);
   const url = `http://${config.host}:${port}`;
-  logger.info({ url }, 'Ebbtide API listening');
+  logger.info({ url, issuer: config.oidcIssuer }, 'Ebbtide API listening');
   return {
     url,
     port,
     stop: async () => {
+      server.closeAllConnections();
       await new Promise<void>((resolve) => server.close(() => resolve()));
       await db.destroy();
     },

@@ -1,6 +1,9 @@
 import type { Router } from 'express';
 import type { AppDeps } from '../../../app';
+import { providerEventRoutes } from './auth-provider-events';
 import { healthRoutes } from './health';
+import { meRoutes } from './me';
+import { userRoutes } from './users';
 
 /**
  * Every API router, mounted under /api. Add one line per feature router.
@@ -8,4 +11,7 @@ import { healthRoutes } from './health';
  */
 export function registerRoutes(api: Router, deps: AppDeps): void {
   api.use(healthRoutes(deps.db));
+  api.use(meRoutes());
+  api.use(userRoutes(deps.db));
+  api.use(providerEventRoutes({ db: deps.db, secret: deps.config.idpEventSecret }));
 }
