@@ -44,3 +44,21 @@ export {
   michaelisMentenTime90,
   michaelisMentenWashoutTime,
 } from './closed-form/michaelis-menten';
+export {
+  idealBodyWeightDevine,
+  adjustedBodyWeight,
+  bodyMassIndex,
+  leanBodyWeightJanmahasatian,
+  bsaMosteller,
+  bsaDuBois,
+} from './covariates/body-size';
+export {
+  cockcroftGault,
+  egfrCkdEpi2021,
+  egfrBedsideSchwartz,
+  type CockcroftGaultInput,
+  type CkdEpiInput,
+  type SchwartzInput,
+  type WeightBasis,
+} from './covariates/renal';
+export type { Sex } from './covariates/checks';
