@@ -1,5 +1,6 @@
 import type { Knex } from 'knex';
 import * as m20261202000100 from './20261202000100_sessions_and_audit';
+import * as m20261202030000 from './20261202030000_mail_outbox';
 import * as m20261202010000 from './20261202010000_users';
 
 /**
@@ -8,6 +9,7 @@ import * as m20261202010000 from './20261202010000_users';
  */
 const migrations: Record<string, Knex.Migration> = {
   '20261202000100_sessions_and_audit': m20261202000100,
+  '20261202030000_mail_outbox': m20261202030000,
   '20261202010000_users': m20261202010000,
 };
 

@@ -1,0 +1,2 @@
+export { startMailCatcher } from './catcher';
+export type { CaughtMessage, MailCatcherOptions, RunningMailCatcher } from './catcher';
