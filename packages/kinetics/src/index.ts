@@ -62,3 +62,86 @@ export {
   type WeightBasis,
 } from './covariates/renal';
 export type { Sex } from './covariates/checks';
+
+// Estimation, regimen design, PTA and sampling suggestion.
+export type {
+  DoseLike,
+  EngineWarning,
+  MeasuredLevel,
+  PopulationPrior,
+  ResidualErrorModel,
+} from './estimation/types';
+export {
+  twoLevelEstimate,
+  designPeakTroughRegimen,
+  twoLevelDefaultOptions,
+  type TwoLevelForm,
+  type TwoLevelOptions,
+  type TwoLevelRefusal,
+  type TwoLevelResult,
+} from './estimation/two-level';
+export {
+  assessLevels,
+  levelRulesDefault,
+  levelRulesByDrug,
+  type LevelAssessment,
+  type LevelRules,
+  type MethodUse,
+} from './estimation/level-validity';
+export {
+  fitMap,
+  populationPrediction,
+  mapFitDefaultOptions,
+  type LevelFit,
+  type MapFitInput,
+  type MapFitOptions,
+  type MapFitResult,
+} from './estimation/map-fit';
+export {
+  nelderMead,
+  nelderMeadDefaultOptions,
+  type NelderMeadOptions,
+  type NelderMeadResult,
+} from './estimation/nelder-mead';
+export { normalCdf, logNormalCdf } from './estimation/normal';
+export {
+  exponentialModel,
+  superposedConcentrations,
+  superposedAuc,
+  steadyStateConcentration,
+  type ExponentialModel,
+} from './regimen/linear-response';
+export {
+  findRegimens,
+  regimenPresets,
+  regimenSearchDefaultOptions,
+  type RegimenCandidate,
+  type RegimenSearchOptions,
+  type RegimenSearchResult,
+} from './regimen/finder';
+export {
+  targetsMet,
+  targetDistance,
+  type Exposure,
+  type ExposureTarget,
+  type Range,
+} from './regimen/targets';
+export {
+  probabilityOfTargetAttainment,
+  mergePtaResults,
+  ptaChunks,
+  type PtaInput,
+  type PtaRegimen,
+  type PtaRegimenResult,
+  type PtaResult,
+  type PtaSource,
+} from './pta/pta';
+export { mulberry32, streamSeed, hash32, fillStandardNormals } from './pta/random';
+export {
+  suggestSamplingTimes,
+  samplingDefaultOptions,
+  type DesignValue,
+  type DrawTime,
+  type SamplingOptions,
+  type SamplingSuggestion,
+} from './sampling/suggest';
