@@ -25,9 +25,16 @@ const median = (xs: number[]): number => {
 };
 
 /** Run the estimation benchmarks and return one line per benchmark. */
-export async function runEstimationBench(log: (s: string) => void = console.log): Promise<BenchLine[]> {
+export async function runEstimationBench(
+  log: (s: string) => void = console.log,
+): Promise<BenchLine[]> {
   const model: ModelStructure = { compartments: 2, elimination: 'linear' };
-  const doses: Dose[] = Array.from({ length: 4 }, (_, i) => ({ time: 12 * i, amount: 1000, route: 'infusion', duration: 1 }));
+  const doses: Dose[] = Array.from({ length: 4 }, (_, i) => ({
+    time: 12 * i,
+    amount: 1000,
+    route: 'infusion',
+    duration: 1,
+  }));
   const truth = { CL: 3, V1: 36, Q: 5, V2: 50 };
   const times = [37.5, 40, 44, 47.5];
   const sim = simulate({ model, parameters: truth, doses, outputTimes: times }).concentrations;
@@ -48,7 +55,13 @@ export async function runEstimationBench(log: (s: string) => void = console.log)
   }
   const lines: BenchLine[] = [];
   const fitMedian = median(fitTimes);
-  lines.push({ name: 'MAP fit, 2-cmt, 4 levels, 4 parameters', medianMs: fitMedian, targetMs: 50, modelEvaluations: evals, pass: fitMedian < 50 });
+  lines.push({
+    name: 'MAP fit, 2-cmt, 4 levels, 4 parameters',
+    medianMs: fitMedian,
+    targetMs: 50,
+    modelEvaluations: evals,
+    pass: fitMedian < 50,
+  });
 
   const input: PtaInput = {
     model,
@@ -65,7 +78,13 @@ export async function runEstimationBench(log: (s: string) => void = console.log)
     ptaEvals = probabilityOfTargetAttainment(input).counters.modelEvaluations;
     serial.push(performance.now() - t0);
   }
-  lines.push({ name: 'PTA 10 000 patients, 1 regimen, 1 thread', medianMs: median(serial), targetMs: 1000, modelEvaluations: ptaEvals, pass: median(serial) < 1000 });
+  lines.push({
+    name: 'PTA 10 000 patients, 1 regimen, 1 thread',
+    medianMs: median(serial),
+    targetMs: 1000,
+    modelEvaluations: ptaEvals,
+    pass: median(serial) < 1000,
+  });
 
   const coldStart = performance.now();
   const pool = createPtaPool({ workers: 2 });
@@ -73,21 +92,35 @@ export async function runEstimationBench(log: (s: string) => void = console.log)
     const first = await pool.run(input);
     const cold = performance.now() - coldStart;
     // Informational: from TypeScript source each worker first loads tsx and transpiles the module graph.
-    lines.push({ name: 'PTA 10 000 patients, 2 workers, incl. pool start (info)', medianMs: cold, targetMs: undefined, modelEvaluations: first.counters.modelEvaluations, pass: true });
+    lines.push({
+      name: 'PTA 10 000 patients, 2 workers, incl. pool start (info)',
+      medianMs: cold,
+      targetMs: undefined,
+      modelEvaluations: first.counters.modelEvaluations,
+      pass: true,
+    });
     const warm: number[] = [];
     for (let i = 0; i < 7; i++) {
       const t0 = performance.now();
       await pool.run(input);
       warm.push(performance.now() - t0);
     }
-    lines.push({ name: 'PTA 10 000 patients, 2 workers, warm pool', medianMs: median(warm), targetMs: 1000, modelEvaluations: first.counters.modelEvaluations, pass: median(warm) < 1000 });
+    lines.push({
+      name: 'PTA 10 000 patients, 2 workers, warm pool',
+      medianMs: median(warm),
+      targetMs: 1000,
+      modelEvaluations: first.counters.modelEvaluations,
+      pass: median(warm) < 1000,
+    });
   } finally {
     await pool.close();
   }
   for (const l of lines) {
     const verdict = l.targetMs === undefined ? 'INFO' : l.pass ? 'PASS' : 'FAIL';
     const target = l.targetMs === undefined ? 'no target' : `target < ${l.targetMs} ms`;
-    log(`${verdict}  ${l.name}: ${l.medianMs.toFixed(1)} ms (${target}), ${l.modelEvaluations} model evaluations`);
+    log(
+      `${verdict}  ${l.name}: ${l.medianMs.toFixed(1)} ms (${target}), ${l.modelEvaluations} model evaluations`,
+    );
   }
   return lines;
 }

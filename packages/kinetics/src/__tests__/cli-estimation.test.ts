@@ -5,7 +5,13 @@ import { runTwoLevelCommand, twoLevelCommand } from '../cli/two-level';
 function memoryIo(stdin: string): CliIo & { out: string[]; err: string[] } {
   const out: string[] = [];
   const err: string[] = [];
-  return { readStdin: async () => stdin, stdout: (s) => void out.push(s), stderr: (s) => void err.push(s), out, err };
+  return {
+    readStdin: async () => stdin,
+    stdout: (s) => void out.push(s),
+    stderr: (s) => void err.push(s),
+    out,
+    err,
+  };
 }
 
 const fitInput = {
@@ -13,8 +19,14 @@ const fitInput = {
   typical: { CL: 4, V1: 50 },
   variability: { CL: 0.3, V1: 0.2 },
   residualError: { additive: 1, proportional: 0.1 },
-  doses: [{ time: 0, amount: 1000, duration: 1 }, { time: 12, amount: 1000, duration: 1 }],
-  levels: [{ time: 14, value: 25 }, { time: 23.5, value: 12 }],
+  doses: [
+    { time: 0, amount: 1000, duration: 1 },
+    { time: 12, amount: 1000, duration: 1 },
+  ],
+  levels: [
+    { time: 14, value: 25 },
+    { time: 23.5, value: 12 },
+  ],
 };
 
 describe('cli/fit', () => {
@@ -22,7 +34,12 @@ describe('cli/fit', () => {
     const io = memoryIo(JSON.stringify(fitInput));
     expect(await fitCommand([], io)).toBe(0);
     const out = JSON.parse(io.out.join('')) as Record<string, unknown>;
-    expect(Object.keys(out).sort()).toEqual(['estimates', 'objective', 'predictions', 'standardErrors']);
+    expect(Object.keys(out).sort()).toEqual([
+      'estimates',
+      'objective',
+      'predictions',
+      'standardErrors',
+    ]);
     expect((out.predictions as number[]).length).toBe(2);
     expect(Object.keys(out.estimates as object).sort()).toEqual(['CL', 'V1']);
   });
@@ -49,8 +66,15 @@ describe('cli/two-level', () => {
   // Constructed first-dose case (pk-reference A2): k 0.1, V 20, 200 mg over 0.5 h.
   const k = 0.1;
   const V = 20;
-  const c = (t: number): number => ((400 / (k * V)) * (1 - Math.exp(-k * 0.5))) * Math.exp(-k * (t - 0.5));
-  const input = { doses: [{ time: 0, amount: 200, duration: 0.5 }], levels: [{ time: 1.5, value: c(1.5) }, { time: 7.5, value: c(7.5) }] };
+  const c = (t: number): number =>
+    (400 / (k * V)) * (1 - Math.exp(-k * 0.5)) * Math.exp(-k * (t - 0.5));
+  const input = {
+    doses: [{ time: 0, amount: 200, duration: 0.5 }],
+    levels: [
+      { time: 1.5, value: c(1.5) },
+      { time: 7.5, value: c(7.5) },
+    ],
+  };
 
   it('twoLevelCommand writes {k, V, CL, halfLife}', async () => {
     const io = memoryIo(JSON.stringify(input));
@@ -63,9 +87,19 @@ describe('cli/two-level', () => {
   });
 
   it('exits non-zero with the reason when the levels do not allow the method', async () => {
-    const io = memoryIo(JSON.stringify({ ...input, levels: [{ time: 0.25, value: 5 }, { time: 7.5, value: 2 }] }));
+    const io = memoryIo(
+      JSON.stringify({
+        ...input,
+        levels: [
+          { time: 0.25, value: 5 },
+          { time: 7.5, value: 2 },
+        ],
+      }),
+    );
     expect(await twoLevelCommand([], io)).toBe(2);
     expect(io.err.join('')).toMatch(/during the infusion/);
-    expect(() => runTwoLevelCommand({ doses: [], levels: [] })).toThrow(/doses must be a non-empty array/);
+    expect(() => runTwoLevelCommand({ doses: [], levels: [] })).toThrow(
+      /doses must be a non-empty array/,
+    );
   });
 });

@@ -4,8 +4,14 @@ import { probabilityOfTargetAttainment, type PtaInput } from '../pta/pta';
 
 const input: PtaInput = {
   model: { compartments: 2, elimination: 'linear' },
-  source: { kind: 'population', prior: { typical: { CL: 4, V1: 30, Q: 6, V2: 40 }, variability: { CL: 0.3, V1: 0.25 } } },
-  regimens: [{ amount: 1000, interval: 12, infusionDuration: 1 }, { amount: 1500, interval: 24, infusionDuration: 1.5 }],
+  source: {
+    kind: 'population',
+    prior: { typical: { CL: 4, V1: 30, Q: 6, V2: 40 }, variability: { CL: 0.3, V1: 0.25 } },
+  },
+  regimens: [
+    { amount: 1000, interval: 12, infusionDuration: 1 },
+    { amount: 1500, interval: 24, infusionDuration: 1.5 },
+  ],
   target: { auc24: { min: 400, max: 600 }, trough: { max: 20 } },
   n: 3000,
   seed: 11,

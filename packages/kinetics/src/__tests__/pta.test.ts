@@ -1,6 +1,11 @@
 import { describe, expect, it } from 'vitest';
 import { fitMap } from '../estimation/map-fit';
-import { mergePtaResults, probabilityOfTargetAttainment, ptaChunks, type PtaInput } from '../pta/pta';
+import {
+  mergePtaResults,
+  probabilityOfTargetAttainment,
+  ptaChunks,
+  type PtaInput,
+} from '../pta/pta';
 import { mulberry32, streamSeed, fillStandardNormals } from '../pta/random';
 import type { Dose, ModelStructure } from '../types';
 
@@ -13,7 +18,14 @@ const regimens = [
   { amount: 1000, interval: 12, infusionDuration: 1 },
   { amount: 1250, interval: 12, infusionDuration: 1.5 },
 ];
-const base: PtaInput = { model, source: { kind: 'population', prior: { typical, variability } }, regimens, target, n: 4000, seed: 7 };
+const base: PtaInput = {
+  model,
+  source: { kind: 'population', prior: { typical, variability } },
+  regimens,
+  target,
+  n: 4000,
+  seed: 7,
+};
 
 describe('pta/random', () => {
   it('mulberry32(seed) is reproducible and roughly uniform; Box–Muller deviates have mean 0, SD 1', () => {
@@ -31,7 +43,11 @@ describe('pta/random', () => {
 
 describe('pta/pta probabilityOfTargetAttainment', () => {
   it('with zero variability PTA is exactly 0 or 1', () => {
-    const none = { ...base, source: { kind: 'population' as const, prior: { typical, variability: {} } }, n: 50 };
+    const none = {
+      ...base,
+      source: { kind: 'population' as const, prior: { typical, variability: {} } },
+      n: 50,
+    };
     const r = probabilityOfTargetAttainment(none);
     // AUC24,ss = daily dose / CL: 2000/4 = 500 (in range), 2500/4 = 625 (out of range).
     expect(r.regimens[0]!.probability).toBe(1);
@@ -49,7 +65,9 @@ describe('pta/pta probabilityOfTargetAttainment', () => {
   it('chunked = unchunked, for any split', () => {
     const whole = probabilityOfTargetAttainment(base);
     for (const k of [2, 3, 7]) {
-      const parts = ptaChunks(base.n, k).map((range) => probabilityOfTargetAttainment({ ...base, range }));
+      const parts = ptaChunks(base.n, k).map((range) =>
+        probabilityOfTargetAttainment({ ...base, range }),
+      );
       const merged = mergePtaResults(parts.reverse());
       expect(merged.regimens).toEqual(whole.regimens);
     }
@@ -59,31 +77,61 @@ describe('pta/pta probabilityOfTargetAttainment', () => {
     // AUC24 = 2000/CL with ln CL ~ N(ln 4, 0.3²): P(400 ≤ AUC ≤ 600) = Φ((ln 5 − ln 4)/0.3) − Φ((ln(10/3) − ln 4)/0.3).
     // Computed with the standard normal CDF: Φ(0.74381) − Φ(−0.60774) = 0.77150 − 0.27168 = 0.49982 (own calculation).
     const exact = 0.49982;
-    const errs = [250, 4000, 64000].map((n) => Math.abs(probabilityOfTargetAttainment({ ...base, n, regimens: [regimens[0]!] }).regimens[0]!.probability - exact));
+    const errs = [250, 4000, 64000].map((n) =>
+      Math.abs(
+        probabilityOfTargetAttainment({ ...base, n, regimens: [regimens[0]!] }).regimens[0]!
+          .probability - exact,
+      ),
+    );
     expect(errs[2]!).toBeLessThan(0.01); // SE at 64 000 ≈ 0.002
-    const r = probabilityOfTargetAttainment({ ...base, n: 64000, regimens: [regimens[0]!] }).regimens[0]!;
+    const r = probabilityOfTargetAttainment({ ...base, n: 64000, regimens: [regimens[0]!] })
+      .regimens[0]!;
     expect(Math.abs(r.probability - exact)).toBeLessThan(4 * r.standardError);
   });
 
   it('samples from the Laplace posterior after a fit (narrower than the prior)', () => {
-    const doses: Dose[] = Array.from({ length: 4 }, (_, i) => ({ time: 12 * i, amount: 1000, route: 'infusion', duration: 1 }));
+    const doses: Dose[] = Array.from({ length: 4 }, (_, i) => ({
+      time: 12 * i,
+      amount: 1000,
+      route: 'infusion',
+      duration: 1,
+    }));
     const fit = fitMap({
-      model, prior: { typical, variability, residualError: { additive: 1, proportional: 0.1 } }, doses,
-      levels: [{ time: 38, value: 28 }, { time: 47.5, value: 12 }],
+      model,
+      prior: { typical, variability, residualError: { additive: 1, proportional: 0.1 } },
+      doses,
+      levels: [
+        { time: 38, value: 28 },
+        { time: 47.5, value: 12 },
+      ],
     });
     const post = probabilityOfTargetAttainment({
       ...base,
-      source: { kind: 'posterior', parameters: fit.parameters as unknown as Record<string, number>, estimated: fit.estimated, covarianceEta: fit.covarianceEta! },
+      source: {
+        kind: 'posterior',
+        parameters: fit.parameters as unknown as Record<string, number>,
+        estimated: fit.estimated,
+        covarianceEta: fit.covarianceEta!,
+      },
     });
     const pop = probabilityOfTargetAttainment(base);
     // The best regimen's attainment is more decisive under the posterior than under the prior.
     const decisiveness = (p: number): number => Math.abs(p - 0.5);
-    expect(Math.max(...post.regimens.map((r) => decisiveness(r.probability)))).toBeGreaterThan(Math.max(...pop.regimens.map((r) => decisiveness(r.probability))));
+    expect(Math.max(...post.regimens.map((r) => decisiveness(r.probability)))).toBeGreaterThan(
+      Math.max(...pop.regimens.map((r) => decisiveness(r.probability))),
+    );
   });
 
   it('refuses bad input', () => {
-    expect(() => probabilityOfTargetAttainment({ ...base, n: 0 })).toThrow(/n must be a positive integer/);
+    expect(() => probabilityOfTargetAttainment({ ...base, n: 0 })).toThrow(
+      /n must be a positive integer/,
+    );
     expect(() => probabilityOfTargetAttainment({ ...base, range: [10, 5] })).toThrow(/range/);
-    expect(() => probabilityOfTargetAttainment({ ...base, regimens: [{ amount: 1000, interval: 1, infusionDuration: 2 }] })).toThrow(/regimens\[0\]/);
+    expect(() =>
+      probabilityOfTargetAttainment({
+        ...base,
+        regimens: [{ amount: 1000, interval: 1, infusionDuration: 2 }],
+      }),
+    ).toThrow(/regimens\[0\]/);
   });
 });

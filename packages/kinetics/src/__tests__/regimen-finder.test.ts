@@ -12,7 +12,12 @@ const target = { auc24: { min: 400, max: 600 } };
 
 describe('regimen/finder findRegimens', () => {
   it('the best vancomycin candidate meets AUC24 400–600 when re-simulated independently by RK4 `simulate`', () => {
-    const r = findRegimens({ model: twoCmt, parameters, target, options: { ...regimenPresets.vancomycin } });
+    const r = findRegimens({
+      model: twoCmt,
+      parameters,
+      target,
+      options: { ...regimenPresets.vancomycin },
+    });
     expect(r.outcome).toBe('targets-met');
     const best = r.candidates[0]!;
     expect(best.allTargetsMet).toBe(true);
@@ -20,11 +25,19 @@ describe('regimen/finder findRegimens', () => {
     // Independent check: ≥ 20 days of the regimen by RK4; AUC over the last full interval scaled to 24 h.
     const doses: Dose[] = [];
     const nDoses = Math.ceil(480 / best.interval) + 1;
-    for (let i = 0; i < nDoses; i++) doses.push({ time: i * best.interval, amount: best.amount, route: 'infusion', duration: best.infusionDuration });
+    for (let i = 0; i < nDoses; i++)
+      doses.push({
+        time: i * best.interval,
+        amount: best.amount,
+        route: 'infusion',
+        duration: best.infusionDuration,
+      });
     const tLast = doses[nDoses - 1]!.time; // start of the last dose = end of the previous interval
     const tPrev = tLast - best.interval;
     const sim = simulate({
-      model: twoCmt, parameters, doses,
+      model: twoCmt,
+      parameters,
+      doses,
       outputTimes: [tLast, tPrev + best.infusionDuration + 1],
       aucWindows: [[tPrev, tLast]],
     });
@@ -39,7 +52,12 @@ describe('regimen/finder findRegimens', () => {
   });
 
   it('respects the infusion-rate cap, dose caps and rounding', () => {
-    const r = findRegimens({ model: twoCmt, parameters, target, options: { maxInfusionRate: 1000, maxCandidates: 200 } });
+    const r = findRegimens({
+      model: twoCmt,
+      parameters,
+      target,
+      options: { maxInfusionRate: 1000, maxCandidates: 200 },
+    });
     for (const c of r.candidates) {
       expect(c.amount / c.infusionDuration).toBeLessThanOrEqual(1000 + 1e-9);
       expect(c.amount).toBeLessThanOrEqual(3000);
@@ -51,17 +69,32 @@ describe('regimen/finder findRegimens', () => {
   it('ranks met candidates first, then closeness, then fewer daily doses', () => {
     const r = findRegimens({ model: twoCmt, parameters, target, options: { maxCandidates: 200 } });
     const firstUnmet = r.candidates.findIndex((c) => !c.allTargetsMet);
-    if (firstUnmet >= 0) expect(r.candidates.slice(firstUnmet).every((c) => !c.allTargetsMet)).toBe(true);
+    if (firstUnmet >= 0)
+      expect(r.candidates.slice(firstUnmet).every((c) => !c.allTargetsMet)).toBe(true);
     const met = r.candidates.filter((c) => c.allTargetsMet);
-    for (let i = 1; i < met.length; i++) expect(Math.floor(met[i]!.distance / 0.1)).toBeGreaterThanOrEqual(Math.floor(met[i - 1]!.distance / 0.1));
+    for (let i = 1; i < met.length; i++)
+      expect(Math.floor(met[i]!.distance / 0.1)).toBeGreaterThanOrEqual(
+        Math.floor(met[i - 1]!.distance / 0.1),
+      );
   });
 
   it('adds a capped loading dose and reports the first-day AUC', () => {
-    const r = findRegimens({ model: twoCmt, parameters, target, options: { loadingDose: { enabled: true, cap: 3000 } } });
+    const r = findRegimens({
+      model: twoCmt,
+      parameters,
+      target,
+      options: { loadingDose: { enabled: true, cap: 3000 } },
+    });
     const c = r.candidates.find((x) => x.loadingDose)!;
     expect(c.loadingDose!.amount).toBeLessThanOrEqual(3000);
     expect(c.firstMaintenanceTime).toBe(c.interval);
-    const sim = simulate({ model: twoCmt, parameters, doses: c.schedule, outputTimes: [], aucWindows: [[0, 24]] });
+    const sim = simulate({
+      model: twoCmt,
+      parameters,
+      doses: c.schedule,
+      outputTimes: [],
+      aucWindows: [[0, 24]],
+    });
     expect(Math.abs(sim.aucs[0]! / c.auc24FirstDay - 1)).toBeLessThan(1e-4);
   });
 
@@ -69,8 +102,10 @@ describe('regimen/finder findRegimens', () => {
     // Peak/MIC ≥ 10 (Int J Antimicrob Agents 2002 review, as cited in pk-reference E2) and trough < 1 mg/L (common practice).
     const p = { CL: 5, V1: 20 };
     const r = findRegimens({
-      model: { compartments: 1, elimination: 'linear' }, parameters: p,
-      target: { peakToMic: { min: 10, mic: 1.5 }, trough: { max: 1 } }, options: { ...regimenPresets.gentamicin },
+      model: { compartments: 1, elimination: 'linear' },
+      parameters: p,
+      target: { peakToMic: { min: 10, mic: 1.5 }, trough: { max: 1 } },
+      options: { ...regimenPresets.gentamicin },
     });
     const best = r.candidates[0]!;
     expect(best.allTargetsMet).toBe(true);
@@ -79,8 +114,16 @@ describe('regimen/finder findRegimens', () => {
   });
 
   it('refuses a target with nothing in it and a Michaelis-Menten model', () => {
-    expect(() => findRegimens({ model: twoCmt, parameters, target: {} })).toThrow(/at least one of/);
-    expect(() => findRegimens({ model: { compartments: 1, elimination: 'michaelis-menten' }, parameters: { V1: 50, Vmax: 20, Km: 4 }, target })).toThrow(/Michaelis-Menten/);
+    expect(() => findRegimens({ model: twoCmt, parameters, target: {} })).toThrow(
+      /at least one of/,
+    );
+    expect(() =>
+      findRegimens({
+        model: { compartments: 1, elimination: 'michaelis-menten' },
+        parameters: { V1: 50, Vmax: 20, Km: 4 },
+        target,
+      }),
+    ).toThrow(/Michaelis-Menten/);
   });
 });
 

@@ -4,14 +4,22 @@ import { designPeakTroughRegimen, twoLevelEstimate } from '../estimation/two-lev
 // Independent reference: one-compartment infusion by superposition of single-dose terms
 // (pk-reference A2 and A4: C(t) = Σ_j (R0/CL)(1 − e^(−k·min(t−t_j, T)))·e^(−k·max(0, t−t_j−T))).
 // Source: Gibaldi M, Perrier D. Pharmacokinetics, 2nd ed., 1982, ch. 1 and 3 (from memory).
-function superposed(k: number, V: number, doses: { time: number; amount: number; duration: number }[], t: number): number {
+function superposed(
+  k: number,
+  V: number,
+  doses: { time: number; amount: number; duration: number }[],
+  t: number,
+): number {
   const CL = k * V;
   let c = 0;
   for (const d of doses) {
     if (t <= d.time) continue;
     const R0 = d.amount / d.duration;
     const s = t - d.time;
-    c += (R0 / CL) * (1 - Math.exp(-k * Math.min(s, d.duration))) * Math.exp(-k * Math.max(0, s - d.duration));
+    c +=
+      (R0 / CL) *
+      (1 - Math.exp(-k * Math.min(s, d.duration))) *
+      Math.exp(-k * Math.max(0, s - d.duration));
   }
   return c;
 }
@@ -54,7 +62,11 @@ describe('estimation/two-level', () => {
       { time: 3, value: superposed(kv, Vv, first, 3) },
       { time: 11, value: superposed(kv, Vv, first, 11) },
     ];
-    const r = twoLevelEstimate({ doses: first, levels: lv, options: { distributionPhaseHours: 1 } });
+    const r = twoLevelEstimate({
+      doses: first,
+      levels: lv,
+      options: { distributionPhaseHours: 1 },
+    });
     expect(r.outcome).toBe('estimated');
     if (r.outcome !== 'estimated') return;
     expect(r.form).toBe('first-dose');
@@ -87,11 +99,41 @@ describe('estimation/two-level', () => {
   });
 
   it.each([
-    ['during-infusion', [{ time: 72.25, value: 5 }, { time: 79, value: 2 }]],
-    ['same-time', [{ time: 74, value: 5 }, { time: 74, value: 4 }]],
-    ['not-falling', [{ time: 74, value: 4 }, { time: 79, value: 5 }]],
-    ['different-intervals', [{ time: 66, value: 5 }, { time: 74, value: 2 }]],
-    ['distribution-phase', [{ time: 72.6, value: 5 }, { time: 79, value: 2 }]],
+    [
+      'during-infusion',
+      [
+        { time: 72.25, value: 5 },
+        { time: 79, value: 2 },
+      ],
+    ],
+    [
+      'same-time',
+      [
+        { time: 74, value: 5 },
+        { time: 74, value: 4 },
+      ],
+    ],
+    [
+      'not-falling',
+      [
+        { time: 74, value: 4 },
+        { time: 79, value: 5 },
+      ],
+    ],
+    [
+      'different-intervals',
+      [
+        { time: 66, value: 5 },
+        { time: 74, value: 2 },
+      ],
+    ],
+    [
+      'distribution-phase',
+      [
+        { time: 72.6, value: 5 },
+        { time: 79, value: 2 },
+      ],
+    ],
   ])('twoLevelEstimate refuses %s levels with a reason', (code, lv) => {
     const r = twoLevelEstimate({ doses, levels: lv });
     expect(r.outcome).toBe('refused');
@@ -103,9 +145,27 @@ describe('estimation/two-level', () => {
 
   it('throws clear errors for bad input (no levels, negative value, before first dose)', () => {
     expect(() => twoLevelEstimate({ doses, levels: [] })).toThrow(/at least one measured level/);
-    expect(() => twoLevelEstimate({ doses, levels: [{ time: 74, value: -1 }, { time: 79, value: 2 }] })).toThrow(/levels\[0\]\.value is negative/);
-    expect(() => twoLevelEstimate({ doses, levels: [{ time: -1, value: 1 }, { time: 79, value: 2 }] })).toThrow(/before the first dose/);
-    expect(() => twoLevelEstimate({ doses: [], levels })).toThrow(/doses must be a non-empty array/);
+    expect(() =>
+      twoLevelEstimate({
+        doses,
+        levels: [
+          { time: 74, value: -1 },
+          { time: 79, value: 2 },
+        ],
+      }),
+    ).toThrow(/levels\[0\]\.value is negative/);
+    expect(() =>
+      twoLevelEstimate({
+        doses,
+        levels: [
+          { time: -1, value: 1 },
+          { time: 79, value: 2 },
+        ],
+      }),
+    ).toThrow(/before the first dose/);
+    expect(() => twoLevelEstimate({ doses: [], levels })).toThrow(
+      /doses must be a non-empty array/,
+    );
   });
 });
 
@@ -114,7 +174,13 @@ describe('estimation/two-level designPeakTroughRegimen', () => {
     const k = 0.25;
     const V = 17;
     const T = 0.5;
-    const r = designPeakTroughRegimen({ k, V, targetPeak: 9, targetTrough: 1, infusionDuration: T });
+    const r = designPeakTroughRegimen({
+      k,
+      V,
+      targetPeak: 9,
+      targetTrough: 1,
+      infusionDuration: T,
+    });
     const R0 = r.dose / T;
     const peak = ((R0 / (k * V)) * (1 - Math.exp(-k * T))) / (1 - Math.exp(-k * r.interval));
     expect(peak).toBeCloseTo(9, 9);
@@ -123,8 +189,13 @@ describe('estimation/two-level designPeakTroughRegimen', () => {
 
   it('rounds to a practical interval not longer than the exact one and reports the rounded regimen', () => {
     const r = designPeakTroughRegimen({
-      k: 0.25, V: 17, targetPeak: 9, targetTrough: 1, infusionDuration: 0.5,
-      practicalIntervals: [6, 8, 12, 24], amountStep: 10,
+      k: 0.25,
+      V: 17,
+      targetPeak: 9,
+      targetTrough: 1,
+      infusionDuration: 0.5,
+      practicalIntervals: [6, 8, 12, 24],
+      amountStep: 10,
     });
     expect(r.interval).toBeGreaterThan(8);
     expect(r.practical!.interval).toBe(8);

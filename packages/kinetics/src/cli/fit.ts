@@ -31,13 +31,21 @@ export const processIo: CliIo = {
 };
 
 /** JSON from the first non-flag argument (a file path) or stdin. @throws EngineError `invalid-input` on bad JSON. */
-export async function readJsonInput(args: readonly string[], io: CliIo, command: string): Promise<unknown> {
+export async function readJsonInput(
+  args: readonly string[],
+  io: CliIo,
+  command: string,
+): Promise<unknown> {
   const file = args.find((a) => !a.startsWith('-'));
   const text = file ? readFileSync(file, 'utf8') : await io.readStdin();
   try {
     return JSON.parse(text) as unknown;
   } catch (e) {
-    throw new EngineError('invalid-input', `${command}: input is not valid JSON (${(e as Error).message})`, 'input');
+    throw new EngineError(
+      'invalid-input',
+      `${command}: input is not valid JSON (${(e as Error).message})`,
+      'input',
+    );
   }
 }
 
@@ -60,19 +68,32 @@ function asObject(v: unknown, field: string): Record<string, unknown> {
 
 /** Normalise CLI doses: `route` defaults to "infusion" when a duration > 0 is given, else "bolus". */
 export function parseCliDoses(v: unknown, command: string): Dose[] {
-  if (!Array.isArray(v) || v.length === 0) throw new EngineError('invalid-input', `${command}: doses must be a non-empty array`, 'doses');
+  if (!Array.isArray(v) || v.length === 0)
+    throw new EngineError('invalid-input', `${command}: doses must be a non-empty array`, 'doses');
   return v.map((d, i) => {
     const o = d as Record<string, unknown>;
-    if (o == null || typeof o !== 'object') throw new EngineError('invalid-input', `${command}: doses[${i}] must be an object`, `doses[${i}]`);
+    if (o == null || typeof o !== 'object')
+      throw new EngineError(
+        'invalid-input',
+        `${command}: doses[${i}] must be an object`,
+        `doses[${i}]`,
+      );
     const duration = o.duration as number | undefined;
-    const route = (o.route as Dose['route'] | undefined) ?? (typeof duration === 'number' && duration > 0 ? 'infusion' : 'bolus');
+    const route =
+      (o.route as Dose['route'] | undefined) ??
+      (typeof duration === 'number' && duration > 0 ? 'infusion' : 'bolus');
     return { ...(o as object), route } as Dose;
   });
 }
 
 /** The fit computation behind the command (pure). @throws EngineError naming the field. */
 export function runFitCommand(json: unknown): {
-  output: { estimates: Record<string, number>; standardErrors: Record<string, number>; predictions: number[]; objective: number };
+  output: {
+    estimates: Record<string, number>;
+    standardErrors: Record<string, number>;
+    predictions: number[];
+    objective: number;
+  };
   warnings: string[];
 } {
   const input = asObject(json, 'input');
@@ -81,8 +102,13 @@ export function runFitCommand(json: unknown): {
     model,
     prior: {
       typical: asObject(input.typical, 'typical') as Record<string, number>,
-      variability: (input.variability === undefined ? {} : asObject(input.variability, 'variability')) as Record<string, number>,
-      residualError: asObject(input.residualError, 'residualError') as { additive: number; proportional: number },
+      variability: (input.variability === undefined
+        ? {}
+        : asObject(input.variability, 'variability')) as Record<string, number>,
+      residualError: asObject(input.residualError, 'residualError') as {
+        additive: number;
+        proportional: number;
+      },
     },
     doses: parseCliDoses(input.doses, 'fit'),
     levels: (Array.isArray(input.levels) ? input.levels : []) as { time: number; value: number }[],

@@ -10,8 +10,12 @@ import { twoLevelEstimate, type TwoLevelOptions } from '../estimation/two-level'
 import { parseCliDoses, readJsonInput, reportFailure, type CliIo } from './fit';
 
 /** The computation behind the command (pure). @throws EngineError for invalid input or `levels-unsuitable`. */
-export function runTwoLevelCommand(json: unknown): { output: { k: number; V: number; CL: number; halfLife: number }; warnings: string[] } {
-  if (json == null || typeof json !== 'object') throw new EngineError('invalid-input', 'two-level: input must be an object', 'input');
+export function runTwoLevelCommand(json: unknown): {
+  output: { k: number; V: number; CL: number; halfLife: number };
+  warnings: string[];
+} {
+  if (json == null || typeof json !== 'object')
+    throw new EngineError('invalid-input', 'two-level: input must be an object', 'input');
   const input = json as Record<string, unknown>;
   const r = twoLevelEstimate({
     doses: parseCliDoses(input.doses, 'two-level'),
@@ -19,7 +23,11 @@ export function runTwoLevelCommand(json: unknown): { output: { k: number; V: num
     options: (input.options ?? {}) as Partial<TwoLevelOptions>,
   });
   if (r.outcome === 'refused') {
-    throw new EngineError('levels-unsuitable', `two-level: the levels do not allow the method: ${r.refusals.map((x) => x.message).join(' ')}`, 'levels');
+    throw new EngineError(
+      'levels-unsuitable',
+      `two-level: the levels do not allow the method: ${r.refusals.map((x) => x.message).join(' ')}`,
+      'levels',
+    );
   }
   return {
     output: { k: r.k, V: r.V, CL: r.CL, halfLife: r.halfLife },

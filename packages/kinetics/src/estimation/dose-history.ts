@@ -22,17 +22,33 @@ export function sortDoses(fn: string, doses: readonly DoseLike[]): SortedDose[] 
   }
   const out = doses.map((d, index): SortedDose => {
     if (d == null || typeof d !== 'object') {
-      throw new EngineError('invalid-input', `${fn}: doses[${index}] must be an object`, `doses[${index}]`);
+      throw new EngineError(
+        'invalid-input',
+        `${fn}: doses[${index}] must be an object`,
+        `doses[${index}]`,
+      );
     }
     if (!Number.isFinite(d.time)) {
-      throw new EngineError('invalid-input', `${fn}: doses[${index}].time must be a finite number of hours`, `doses[${index}].time`);
+      throw new EngineError(
+        'invalid-input',
+        `${fn}: doses[${index}].time must be a finite number of hours`,
+        `doses[${index}].time`,
+      );
     }
     if (!Number.isFinite(d.amount) || d.amount < 0) {
-      throw new EngineError('invalid-input', `${fn}: doses[${index}].amount must be a non-negative number of mg`, `doses[${index}].amount`);
+      throw new EngineError(
+        'invalid-input',
+        `${fn}: doses[${index}].amount must be a non-negative number of mg`,
+        `doses[${index}].amount`,
+      );
     }
     const duration = d.route === undefined || d.route === 'infusion' ? (d.duration ?? 0) : 0;
     if (!Number.isFinite(duration) || duration < 0) {
-      throw new EngineError('invalid-input', `${fn}: doses[${index}].duration must be a non-negative number of hours`, `doses[${index}].duration`);
+      throw new EngineError(
+        'invalid-input',
+        `${fn}: doses[${index}].duration must be a non-negative number of hours`,
+        `doses[${index}].duration`,
+      );
     }
     const route = d.route ?? (duration > 0 ? 'infusion' : 'bolus');
     return { index, time: d.time, amount: d.amount, duration, end: d.time + duration, route };
@@ -41,22 +57,42 @@ export function sortDoses(fn: string, doses: readonly DoseLike[]): SortedDose[] 
 }
 
 /** Validate levels (finite time, finite value ≥ 0). @throws EngineError `invalid-input` / `no-levels`. */
-export function validateLevels(fn: string, levels: readonly MeasuredLevel[], firstDoseTime?: number): void {
+export function validateLevels(
+  fn: string,
+  levels: readonly MeasuredLevel[],
+  firstDoseTime?: number,
+): void {
   if (!Array.isArray(levels) || levels.length === 0) {
     throw new EngineError('no-levels', `${fn}: at least one measured level is needed`, 'levels');
   }
   levels.forEach((l, i) => {
     if (l == null || typeof l !== 'object' || !Number.isFinite(l.time)) {
-      throw new EngineError('invalid-input', `${fn}: levels[${i}].time must be a finite number of hours`, `levels[${i}].time`);
+      throw new EngineError(
+        'invalid-input',
+        `${fn}: levels[${i}].time must be a finite number of hours`,
+        `levels[${i}].time`,
+      );
     }
     if (!Number.isFinite(l.value)) {
-      throw new EngineError('invalid-input', `${fn}: levels[${i}].value must be a finite concentration in mg/L`, `levels[${i}].value`);
+      throw new EngineError(
+        'invalid-input',
+        `${fn}: levels[${i}].value must be a finite concentration in mg/L`,
+        `levels[${i}].value`,
+      );
     }
     if (l.value < 0) {
-      throw new EngineError('invalid-input', `${fn}: levels[${i}].value is negative (${l.value} mg/L); a concentration cannot be below 0`, `levels[${i}].value`);
+      throw new EngineError(
+        'invalid-input',
+        `${fn}: levels[${i}].value is negative (${l.value} mg/L); a concentration cannot be below 0`,
+        `levels[${i}].value`,
+      );
     }
     if (l.lloq !== undefined && (!Number.isFinite(l.lloq) || l.lloq <= 0)) {
-      throw new EngineError('invalid-input', `${fn}: levels[${i}].lloq must be a positive concentration in mg/L`, `levels[${i}].lloq`);
+      throw new EngineError(
+        'invalid-input',
+        `${fn}: levels[${i}].lloq must be a positive concentration in mg/L`,
+        `levels[${i}].lloq`,
+      );
     }
     if (firstDoseTime !== undefined && l.time < firstDoseTime) {
       throw new EngineError(
@@ -75,13 +111,18 @@ export function lastDoseAtOrBefore(sorted: readonly SortedDose[], t: number): nu
   return k;
 }
 
-const same = (a: number, b: number): boolean => Math.abs(a - b) <= 1e-6 * Math.max(1, Math.abs(a), Math.abs(b));
+const same = (a: number, b: number): boolean =>
+  Math.abs(a - b) <= 1e-6 * Math.max(1, Math.abs(a), Math.abs(b));
 
 /**
  * Start position (in sorted doses) of the regimen in force at dose position `pos`: walk back while
  * amount, duration and interval stay the same (intervals compared within `intervalTolerance` h).
  */
-export function regimenStart(sorted: readonly SortedDose[], pos: number, intervalTolerance = 0.5): number {
+export function regimenStart(
+  sorted: readonly SortedDose[],
+  pos: number,
+  intervalTolerance = 0.5,
+): number {
   let start = pos;
   const cur = sorted[pos]!;
   const interval = pos > 0 ? cur.time - sorted[pos - 1]!.time : undefined;
@@ -104,9 +145,10 @@ export function usualInterval(sorted: readonly SortedDose[]): number | undefined
   }
   let best: number | undefined;
   let bestCount = 0;
-  for (const [g, c] of counts) if (c > bestCount || (c === bestCount && best !== undefined && g < best)) {
-    best = g;
-    bestCount = c;
-  }
+  for (const [g, c] of counts)
+    if (c > bestCount || (c === bestCount && best !== undefined && g < best)) {
+      best = g;
+      bestCount = c;
+    }
   return best;
 }

@@ -23,7 +23,10 @@ export function numericalHessian(
     for (let j = 0; j < i; j++) {
       const hj = h(j);
       const v =
-        (at({ [i]: hi, [j]: hj }) - at({ [i]: hi, [j]: -hj }) - at({ [i]: -hi, [j]: hj }) + at({ [i]: -hi, [j]: -hj })) /
+        (at({ [i]: hi, [j]: hj }) -
+          at({ [i]: hi, [j]: -hj }) -
+          at({ [i]: -hi, [j]: hj }) +
+          at({ [i]: -hi, [j]: -hj })) /
         (4 * hi * hj);
       hess[i]![j] = v;
       hess[j]![i] = v;

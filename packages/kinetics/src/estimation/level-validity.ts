@@ -16,7 +16,13 @@
  * The log-linear method (Sawchuk-Zaske) also needs a steady state or the first dose interval, no missed dose
  * in that interval, and a measurable concentration.
  */
-import { lastDoseAtOrBefore, regimenStart, sortDoses, usualInterval, validateLevels } from './dose-history';
+import {
+  lastDoseAtOrBefore,
+  regimenStart,
+  sortDoses,
+  usualInterval,
+  validateLevels,
+} from './dose-history';
 import type { DoseLike, EngineWarning, MeasuredLevel } from './types';
 
 export interface LevelRules {
@@ -43,13 +49,14 @@ export const levelRulesDefault: Readonly<LevelRules> = Object.freeze({
  * end of infusion). Aminoglycosides 0.5 h: common practice. Phenytoin IV 1 h: from memory (≥ 0.5–1 h after IV
  * phenytoin, RCPA manual).
  */
-export const levelRulesByDrug: Readonly<Record<string, Readonly<Partial<LevelRules>>>> = Object.freeze({
-  vancomycin: Object.freeze({ distributionPhaseHours: 1, compartments: 2 as const }),
-  gentamicin: Object.freeze({ distributionPhaseHours: 0.5, compartments: 1 as const }),
-  tobramycin: Object.freeze({ distributionPhaseHours: 0.5, compartments: 1 as const }),
-  amikacin: Object.freeze({ distributionPhaseHours: 0.5, compartments: 1 as const }),
-  phenytoin: Object.freeze({ distributionPhaseHours: 1, compartments: 1 as const }),
-});
+export const levelRulesByDrug: Readonly<Record<string, Readonly<Partial<LevelRules>>>> =
+  Object.freeze({
+    vancomycin: Object.freeze({ distributionPhaseHours: 1, compartments: 2 as const }),
+    gentamicin: Object.freeze({ distributionPhaseHours: 0.5, compartments: 1 as const }),
+    tobramycin: Object.freeze({ distributionPhaseHours: 0.5, compartments: 1 as const }),
+    amikacin: Object.freeze({ distributionPhaseHours: 0.5, compartments: 1 as const }),
+    phenytoin: Object.freeze({ distributionPhaseHours: 1, compartments: 1 as const }),
+  });
 
 export interface MethodUse {
   readonly usable: boolean;
@@ -104,20 +111,36 @@ export function assessLevels(input: {
     ...(input.rules ?? {}),
   };
   const tau = usualInterval(doses);
-  const t12 = input.halfLife !== undefined && input.halfLife > 0 && Number.isFinite(input.halfLife) ? input.halfLife : undefined;
+  const t12 =
+    input.halfLife !== undefined && input.halfLife > 0 && Number.isFinite(input.halfLife)
+      ? input.halfLife
+      : undefined;
 
   return input.levels.map((l, i): LevelAssessment => {
     const notes: EngineWarning[] = [];
     const pos = lastDoseAtOrBefore(doses, l.time);
-    const belowLimit = l.blq === true || l.value === 0 || (l.lloq !== undefined && l.value < l.lloq);
+    const belowLimit =
+      l.blq === true || l.value === 0 || (l.lloq !== undefined && l.value < l.lloq);
     if (pos < 0) {
       const reason = `Drawn at ${l.time} h, before the first recorded dose (${doses[0]!.time} h): a baseline, not usable for estimation.`;
       notes.push({ code: 'before-first-dose', message: reason });
       return {
-        level: i, time: l.time, value: l.value, lastDose: undefined, hoursSinceDoseEnd: undefined,
-        duringInfusion: false, distributionPhase: false, halfLivesSinceRegimenChange: undefined, steadyState: undefined,
-        afterMissedDose: false, earlyTrough: false, belowLimit,
-        bayesian: { usable: false, reason }, logLinear: { usable: false, reason }, verdict: 'neither', notes,
+        level: i,
+        time: l.time,
+        value: l.value,
+        lastDose: undefined,
+        hoursSinceDoseEnd: undefined,
+        duringInfusion: false,
+        distributionPhase: false,
+        halfLivesSinceRegimenChange: undefined,
+        steadyState: undefined,
+        afterMissedDose: false,
+        earlyTrough: false,
+        belowLimit,
+        bayesian: { usable: false, reason },
+        logLinear: { usable: false, reason },
+        verdict: 'neither',
+        notes,
       };
     }
     const d = doses[pos]!;
@@ -169,32 +192,98 @@ export function assessLevels(input: {
         });
       }
     }
-    if (belowLimit) notes.push({ code: 'below-limit', message: 'Below the assay limit: used as "below the limit" (censored), never as zero.' });
+    if (belowLimit)
+      notes.push({
+        code: 'below-limit',
+        message: 'Below the assay limit: used as "below the limit" (censored), never as zero.',
+      });
 
     let bayesian: MethodUse;
     if (distributionPhase && r.compartments === 1) {
-      bayesian = { usable: false, reason: 'Inside the distribution phase, which a one-compartment model does not describe.' };
+      bayesian = {
+        usable: false,
+        reason: 'Inside the distribution phase, which a one-compartment model does not describe.',
+      };
     } else if (duringInfusion) {
-      bayesian = { usable: true, reason: 'Usable: the model includes the running infusion; confirm the sample was not from the infusion line.' };
+      bayesian = {
+        usable: true,
+        reason:
+          'Usable: the model includes the running infusion; confirm the sample was not from the infusion line.',
+      };
     } else if (belowLimit) {
       bayesian = { usable: true, reason: 'Usable as a censored (below-limit) observation.' };
     } else {
-      bayesian = { usable: true, reason: 'Usable: the Bayesian fit uses the actual dose and sample times, at steady state or not.' };
+      bayesian = {
+        usable: true,
+        reason:
+          'Usable: the Bayesian fit uses the actual dose and sample times, at steady state or not.',
+      };
     }
     let logLinear: MethodUse;
-    if (duringInfusion) logLinear = { usable: false, reason: 'Drawn during the infusion; the log-linear method needs post-infusion levels.' };
-    else if (distributionPhase) logLinear = { usable: false, reason: 'Not post-distribution; a log-linear slope would overestimate elimination.' };
-    else if (belowLimit) logLinear = { usable: false, reason: 'Not measurable; a log-linear slope needs a concentration above the assay limit.' };
-    else if (afterMissedDose) logLinear = { usable: false, reason: 'Follows a missed or delayed dose; the regular-interval equations do not apply.' };
-    else if (pos > 0 && steadyState === false) logLinear = { usable: false, reason: 'Not at steady state and not after the first dose; only Bayesian estimation handles this.' };
-    else if (pos > 0 && steadyState === undefined) logLinear = { usable: true, reason: 'Usable if the regimen is at steady state (no half-life given to check).' };
-    else logLinear = { usable: true, reason: pos === 0 ? 'Usable with the first-dose form (nothing left from earlier doses).' : 'Usable: post-distribution, at steady state.' };
+    if (duringInfusion)
+      logLinear = {
+        usable: false,
+        reason: 'Drawn during the infusion; the log-linear method needs post-infusion levels.',
+      };
+    else if (distributionPhase)
+      logLinear = {
+        usable: false,
+        reason: 'Not post-distribution; a log-linear slope would overestimate elimination.',
+      };
+    else if (belowLimit)
+      logLinear = {
+        usable: false,
+        reason: 'Not measurable; a log-linear slope needs a concentration above the assay limit.',
+      };
+    else if (afterMissedDose)
+      logLinear = {
+        usable: false,
+        reason: 'Follows a missed or delayed dose; the regular-interval equations do not apply.',
+      };
+    else if (pos > 0 && steadyState === false)
+      logLinear = {
+        usable: false,
+        reason:
+          'Not at steady state and not after the first dose; only Bayesian estimation handles this.',
+      };
+    else if (pos > 0 && steadyState === undefined)
+      logLinear = {
+        usable: true,
+        reason: 'Usable if the regimen is at steady state (no half-life given to check).',
+      };
+    else
+      logLinear = {
+        usable: true,
+        reason:
+          pos === 0
+            ? 'Usable with the first-dose form (nothing left from earlier doses).'
+            : 'Usable: post-distribution, at steady state.',
+      };
 
-    const verdict = bayesian.usable ? (logLinear.usable ? 'both' : 'bayesian-only') : logLinear.usable ? 'log-linear-only' : 'neither';
+    const verdict = bayesian.usable
+      ? logLinear.usable
+        ? 'both'
+        : 'bayesian-only'
+      : logLinear.usable
+        ? 'log-linear-only'
+        : 'neither';
     return {
-      level: i, time: l.time, value: l.value, lastDose: d.index, hoursSinceDoseEnd: since, duringInfusion,
-      distributionPhase, halfLivesSinceRegimenChange: halfLives, steadyState, afterMissedDose, earlyTrough, belowLimit,
-      bayesian, logLinear, verdict, notes,
+      level: i,
+      time: l.time,
+      value: l.value,
+      lastDose: d.index,
+      hoursSinceDoseEnd: since,
+      duringInfusion,
+      distributionPhase,
+      halfLivesSinceRegimenChange: halfLives,
+      steadyState,
+      afterMissedDose,
+      earlyTrough,
+      belowLimit,
+      bayesian,
+      logLinear,
+      verdict,
+      notes,
     };
   });
 }

@@ -51,13 +51,23 @@ export function inverseSpd(a: readonly (readonly number[])[]): Matrix | undefine
 /** Quadratic form vᵀ·A·v. */
 export function quadraticForm(a: readonly (readonly number[])[], v: readonly number[]): number {
   let s = 0;
-  for (let i = 0; i < v.length; i++) for (let j = 0; j < v.length; j++) s += v[i]! * a[i]![j]! * v[j]!;
+  for (let i = 0; i < v.length; i++)
+    for (let j = 0; j < v.length; j++) s += v[i]! * a[i]![j]! * v[j]!;
   return s;
 }
 
 /** Throws unless `a` is a square matrix of finite numbers of size n. */
-export function assertSquare(fn: string, a: readonly (readonly number[])[], n: number, field: string): void {
+export function assertSquare(
+  fn: string,
+  a: readonly (readonly number[])[],
+  n: number,
+  field: string,
+): void {
   if (a.length !== n || a.some((row) => row.length !== n || row.some((x) => !Number.isFinite(x)))) {
-    throw new EngineError('invalid-input', `${fn}: ${field} must be a ${n}×${n} matrix of finite numbers`, field);
+    throw new EngineError(
+      'invalid-input',
+      `${fn}: ${field} must be a ${n}×${n} matrix of finite numbers`,
+      field,
+    );
   }
 }

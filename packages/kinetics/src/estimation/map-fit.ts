@@ -20,7 +20,11 @@
  * is the prior. `distanceFromPopulation` = η̂/ω (how many prior SDs the estimate lies from the typical value).
  */
 import { EngineError } from '../errors';
-import { exponentialModel, superposedConcentrations, type ExponentialModel } from '../regimen/linear-response';
+import {
+  exponentialModel,
+  superposedConcentrations,
+  type ExponentialModel,
+} from '../regimen/linear-response';
 import { concentrationsAt } from '../simulate';
 import type { Dose, ModelStructure, PkParameters } from '../types';
 import { validateLevels } from './dose-history';
@@ -134,7 +138,8 @@ export function makePredictor(
       try {
         m = exponentialModel(model, p, oral);
       } catch (e) {
-        if (e instanceof EngineError && e.code === 'invalid-input') return times.map(() => Number.NaN);
+        if (e instanceof EngineError && e.code === 'invalid-input')
+          return times.map(() => Number.NaN);
         throw e;
       }
       return superposedConcentrations(m, doses, times);
@@ -144,45 +149,94 @@ export function makePredictor(
 }
 
 function validatePrior(fn: string, model: ModelStructure, prior: PopulationPrior): string[] {
-  if (prior == null || typeof prior !== 'object' || prior.typical == null || typeof prior.typical !== 'object') {
-    throw new EngineError('invalid-input', `${fn}: prior.typical must be an object of parameter values`, 'prior.typical');
+  if (
+    prior == null ||
+    typeof prior !== 'object' ||
+    prior.typical == null ||
+    typeof prior.typical !== 'object'
+  ) {
+    throw new EngineError(
+      'invalid-input',
+      `${fn}: prior.typical must be an object of parameter values`,
+      'prior.typical',
+    );
   }
   const variability = prior.variability ?? {};
   for (const [k, v] of Object.entries(prior.typical)) {
     if (!(PK_PARAMETER_NAMES as readonly string[]).includes(k)) {
-      throw new EngineError('invalid-input', `${fn}: prior.typical.${k} is not a known parameter (${PK_PARAMETER_NAMES.join(', ')})`, `typical.${k}`);
+      throw new EngineError(
+        'invalid-input',
+        `${fn}: prior.typical.${k} is not a known parameter (${PK_PARAMETER_NAMES.join(', ')})`,
+        `typical.${k}`,
+      );
     }
     if (!Number.isFinite(v) || v <= 0) {
-      throw new EngineError('invalid-input', `${fn}: prior.typical.${k} must be a positive number`, `typical.${k}`);
+      throw new EngineError(
+        'invalid-input',
+        `${fn}: prior.typical.${k} must be a positive number`,
+        `typical.${k}`,
+      );
     }
   }
   const estimated: string[] = [];
   for (const [k, w] of Object.entries(variability)) {
     if (!(k in prior.typical)) {
-      throw new EngineError('invalid-input', `${fn}: variability.${k} has no typical value`, `variability.${k}`);
+      throw new EngineError(
+        'invalid-input',
+        `${fn}: variability.${k} has no typical value`,
+        `variability.${k}`,
+      );
     }
     if (!Number.isFinite(w) || w < 0) {
-      throw new EngineError('invalid-input', `${fn}: variability.${k} (omega, SD of ln ${k}) must be ≥ 0`, `variability.${k}`);
+      throw new EngineError(
+        'invalid-input',
+        `${fn}: variability.${k} (omega, SD of ln ${k}) must be ≥ 0`,
+        `variability.${k}`,
+      );
     }
     if (w > 0) estimated.push(k);
   }
   const re = prior.residualError;
   if (re == null || typeof re !== 'object') {
-    throw new EngineError('invalid-input', `${fn}: residualError {additive, proportional} is required`, 'residualError');
+    throw new EngineError(
+      'invalid-input',
+      `${fn}: residualError {additive, proportional} is required`,
+      'residualError',
+    );
   }
   for (const f of ['additive', 'proportional'] as const) {
     if (!Number.isFinite(re[f]) || re[f] < 0) {
-      throw new EngineError('invalid-input', `${fn}: residualError.${f} must be a number ≥ 0`, `residualError.${f}`);
+      throw new EngineError(
+        'invalid-input',
+        `${fn}: residualError.${f} must be a number ≥ 0`,
+        `residualError.${f}`,
+      );
     }
   }
   if (re.additive === 0 && re.proportional === 0) {
-    throw new EngineError('invalid-input', `${fn}: residualError needs additive or proportional > 0`, 'residualError');
+    throw new EngineError(
+      'invalid-input',
+      `${fn}: residualError needs additive or proportional > 0`,
+      'residualError',
+    );
   }
-  if (model == null || typeof model !== 'object' || (model.compartments !== 1 && model.compartments !== 2)) {
-    throw new EngineError('unknown-model', `${fn}: model must be {compartments: 1|2, elimination}; got ${JSON.stringify(model)}`, 'model');
+  if (
+    model == null ||
+    typeof model !== 'object' ||
+    (model.compartments !== 1 && model.compartments !== 2)
+  ) {
+    throw new EngineError(
+      'unknown-model',
+      `${fn}: model must be {compartments: 1|2, elimination}; got ${JSON.stringify(model)}`,
+      'model',
+    );
   }
   if (model.elimination !== 'linear' && model.elimination !== 'michaelis-menten') {
-    throw new EngineError('unknown-model', `${fn}: model.elimination must be "linear" or "michaelis-menten"`, 'model.elimination');
+    throw new EngineError(
+      'unknown-model',
+      `${fn}: model.elimination must be "linear" or "michaelis-menten"`,
+      'model.elimination',
+    );
   }
   return estimated;
 }
@@ -199,17 +253,24 @@ function validatePrior(fn: string, model: ModelStructure, prior: PopulationPrior
  */
 export function fitMap(input: MapFitInput): MapFitResult {
   const fn = 'fitMap';
-  if (input == null || typeof input !== 'object') throw new EngineError('invalid-input', `${fn}: input must be an object`, 'input');
+  if (input == null || typeof input !== 'object')
+    throw new EngineError('invalid-input', `${fn}: input must be an object`, 'input');
   const o: MapFitOptions = { ...mapFitDefaultOptions, ...(input.options ?? {}) };
   const { model, prior } = input;
   const estimated = validatePrior(fn, model, prior);
   if (!Array.isArray(input.doses) || input.doses.length === 0) {
     throw new EngineError('invalid-input', `${fn}: doses must be a non-empty array`, 'doses');
   }
-  const firstDose = Math.min(...input.doses.map((d) => (d && Number.isFinite(d.time) ? d.time : Number.POSITIVE_INFINITY)));
+  const firstDose = Math.min(
+    ...input.doses.map((d) => (d && Number.isFinite(d.time) ? d.time : Number.POSITIVE_INFINITY)),
+  );
   validateLevels(fn, input.levels, Number.isFinite(firstDose) ? firstDose : undefined);
   if (estimated.length === 0) {
-    throw new EngineError('no-estimable-parameters', `${fn}: no parameter has variability > 0, so there is nothing to estimate`, 'variability');
+    throw new EngineError(
+      'no-estimable-parameters',
+      `${fn}: no parameter has variability > 0, so there is nothing to estimate`,
+      'variability',
+    );
   }
   const levels = input.levels;
   const isBlq = levels.map((l) => l.blq === true || (l.lloq !== undefined && l.value < l.lloq));
@@ -217,16 +278,26 @@ export function fitMap(input: MapFitInput): MapFitResult {
     if (!isBlq[i]) return Number.NaN;
     const lim = l.lloq ?? l.value;
     if (!(lim > 0)) {
-      throw new EngineError('invalid-input', `${fn}: levels[${i}] is below the limit but has no lloq`, `levels[${i}].lloq`);
+      throw new EngineError(
+        'invalid-input',
+        `${fn}: levels[${i}] is below the limit but has no lloq`,
+        `levels[${i}].lloq`,
+      );
     }
     return lim;
   });
-  const predict = makePredictor(model, input.doses, levels.map((l) => l.time), o.predictor);
+  const predict = makePredictor(
+    model,
+    input.doses,
+    levels.map((l) => l.time),
+    o.predictor,
+  );
   const typical = prior.typical as Record<string, number>;
   const omegas = estimated.map((k) => prior.variability[k]!);
   const { additive, proportional } = prior.residualError;
   const floor2 = o.sigmaFloor * o.sigmaFloor;
-  const variance = (f: number): number => Math.max(floor2, additive * additive + (proportional * f) ** 2);
+  const variance = (f: number): number =>
+    Math.max(floor2, additive * additive + (proportional * f) ** 2);
   const paramsOf = (eta: readonly number[]): PkParameters => {
     const p: Record<string, number> = { ...typical };
     estimated.forEach((k, j) => (p[k] = typical[k]! * Math.exp(eta[j]!)));
@@ -244,7 +315,8 @@ export function fitMap(input: MapFitInput): MapFitResult {
     }
     return s;
   };
-  const priorPart = (eta: readonly number[]): number => eta.reduce((s, e, j) => s + (e / omegas[j]!) ** 2, 0);
+  const priorPart = (eta: readonly number[]): number =>
+    eta.reduce((s, e, j) => s + (e / omegas[j]!) ** 2, 0);
   const objective = (eta: readonly number[]): number => {
     evaluations++;
     if (eta.some((e, j) => Math.abs(e / omegas[j]!) > 12)) return Number.POSITIVE_INFINITY;
@@ -262,15 +334,24 @@ export function fitMap(input: MapFitInput): MapFitResult {
   const runs = starts.map((x0) => {
     const nmOpts = { initialStep: omegas.map((w) => 0.5 * w), maxEvaluations: o.maxEvaluations };
     const first = nelderMead(objective, x0, nmOpts);
-    const again = nelderMead(objective, first.x, { ...nmOpts, initialStep: omegas.map((w) => 0.05 * w) });
+    const again = nelderMead(objective, first.x, {
+      ...nmOpts,
+      initialStep: omegas.map((w) => 0.05 * w),
+    });
     return { ...again, outcome: again.outcome, iterations: first.iterations + again.iterations };
   });
   const best = runs.reduce((a, b) => (b.value < a.value ? b : a));
-  const agreeing = runs.filter((r) => Math.abs(r.value - best.value) <= o.agreementTolerance).length;
+  const agreeing = runs.filter(
+    (r) => Math.abs(r.value - best.value) <= o.agreementTolerance,
+  ).length;
   const warnings: EngineWarning[] = [...(input.priorWarnings ?? [])];
   const converged = best.outcome === 'converged';
   if (!converged) {
-    warnings.push({ code: 'not-converged', message: 'The optimiser stopped at its evaluation limit before converging; treat the estimate with caution.' });
+    warnings.push({
+      code: 'not-converged',
+      message:
+        'The optimiser stopped at its evaluation limit before converging; treat the estimate with caution.',
+    });
   }
   if (runs.length > 1 && agreeing < runs.length) {
     warnings.push({
@@ -313,7 +394,8 @@ export function fitMap(input: MapFitInput): MapFitResult {
   } else {
     warnings.push({
       code: 'uncertainty-unavailable',
-      message: 'The objective is not curved at the optimum in every direction (Hessian not positive definite); standard errors are not reported.',
+      message:
+        'The objective is not curved at the optimum in every direction (Hessian not positive definite); standard errors are not reported.',
     });
   }
   const distanceFromPopulation: Record<string, number> = {};
@@ -334,7 +416,10 @@ export function fitMap(input: MapFitInput): MapFitResult {
     });
   }
   if (isBlq.some((b) => b)) {
-    warnings.push({ code: 'blq-levels', message: `${isBlq.filter((b) => b).length} level(s) below the assay limit were used as censored observations (M3).` });
+    warnings.push({
+      code: 'blq-levels',
+      message: `${isBlq.filter((b) => b).length} level(s) below the assay limit were used as censored observations (M3).`,
+    });
   }
   const levelFits: LevelFit[] = levels.map((l, i) => {
     const fi = fInd[i]!;
@@ -406,7 +491,8 @@ export function populationPrediction(input: {
       ...(input.priorWarnings ?? []),
       {
         code: 'population-only',
-        message: 'Population prediction for a typical patient with these covariates; no measured level informs it, and individual patients vary widely around it.',
+        message:
+          'Population prediction for a typical patient with these covariates; no measured level informs it, and individual patients vary widely around it.',
       },
     ],
   };

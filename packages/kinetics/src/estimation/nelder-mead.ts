@@ -50,7 +50,11 @@ export function nelderMead(
   const o = { ...nelderMeadDefaultOptions, ...options };
   const n = x0.length;
   if (n === 0 || x0.some((v) => !Number.isFinite(v))) {
-    throw new EngineError('invalid-input', 'nelderMead: x0 must be a non-empty array of finite numbers', 'x0');
+    throw new EngineError(
+      'invalid-input',
+      'nelderMead: x0 must be a non-empty array of finite numbers',
+      'x0',
+    );
   }
   let evaluations = 0;
   const evalf = (x: readonly number[]): number => {
@@ -60,7 +64,11 @@ export function nelderMead(
   };
   const start = evalf(x0);
   if (!Number.isFinite(start)) {
-    throw new EngineError('invalid-input', 'nelderMead: objective is not finite at the starting point', 'x0');
+    throw new EngineError(
+      'invalid-input',
+      'nelderMead: objective is not finite at the starting point',
+      'x0',
+    );
   }
   const pts: number[][] = [x0.slice()];
   const vals: number[] = [start];
@@ -91,11 +99,18 @@ export function nelderMead(
   order();
   while (!converged()) {
     if (evaluations >= o.maxEvaluations) {
-      return { x: pts[0]!.slice(), value: vals[0]!, outcome: 'max-evaluations', evaluations, iterations };
+      return {
+        x: pts[0]!.slice(),
+        value: vals[0]!,
+        outcome: 'max-evaluations',
+        evaluations,
+        iterations,
+      };
     }
     iterations++;
     const centroid = new Array<number>(n).fill(0);
-    for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) centroid[j] = centroid[j]! + pts[i]![j]! / n;
+    for (let i = 0; i < n; i++)
+      for (let j = 0; j < n; j++) centroid[j] = centroid[j]! + pts[i]![j]! / n;
     const worst = pts[n]!;
     const along = (t: number): number[] => centroid.map((c, j) => c + t * (c - worst[j]!));
     const xr = along(1);

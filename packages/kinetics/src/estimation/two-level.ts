@@ -82,7 +82,11 @@ export type TwoLevelResult =
       readonly sampledDose: number;
       readonly warnings: EngineWarning[];
     }
-  | { readonly outcome: 'refused'; readonly refusals: TwoLevelRefusal[]; readonly warnings: EngineWarning[] };
+  | {
+      readonly outcome: 'refused';
+      readonly refusals: TwoLevelRefusal[];
+      readonly warnings: EngineWarning[];
+    };
 
 /**
  * Estimate k, V, CL and t½ from two post-distribution levels in one dosing interval (Sawchuk-Zaske).
@@ -104,17 +108,27 @@ export function twoLevelEstimate(input: {
   const warnings: EngineWarning[] = [];
   const refusals: TwoLevelRefusal[] = [];
   if (input.levels.length !== 2) {
-    refusals.push({ code: 'not-two-levels', message: `Exactly two levels are needed; ${input.levels.length} were given.` });
+    refusals.push({
+      code: 'not-two-levels',
+      message: `Exactly two levels are needed; ${input.levels.length} were given.`,
+    });
     return { outcome: 'refused', refusals, warnings };
   }
-  const [a, b] = [...input.levels].sort((x, y) => x.time - y.time) as [MeasuredLevel, MeasuredLevel];
+  const [a, b] = [...input.levels].sort((x, y) => x.time - y.time) as [
+    MeasuredLevel,
+    MeasuredLevel,
+  ];
   if (a.time === b.time) {
-    refusals.push({ code: 'same-time', message: `Both levels were drawn at ${a.time} h; the method needs two different times.` });
+    refusals.push({
+      code: 'same-time',
+      message: `Both levels were drawn at ${a.time} h; the method needs two different times.`,
+    });
   }
   if (a.value <= 0 || b.value <= 0 || a.blq || b.blq) {
     refusals.push({
       code: 'non-positive-level',
-      message: 'A level is zero or below the assay limit; a log-linear slope needs two measurable concentrations.',
+      message:
+        'A level is zero or below the assay limit; a log-linear slope needs two measurable concentrations.',
     });
   } else if (a.time !== b.time && b.value >= a.value) {
     refusals.push({
@@ -132,7 +146,11 @@ export function twoLevelEstimate(input: {
   }
   const dose = doses[pa]!;
   if (dose.duration <= 0) {
-    refusals.push({ code: 'not-infusion', message: 'The sampled dose is not an infusion; this form of the method is for intermittent infusions.' });
+    refusals.push({
+      code: 'not-infusion',
+      message:
+        'The sampled dose is not an infusion; this form of the method is for intermittent infusions.',
+    });
   }
   for (const l of [a, b]) {
     const d = doses[lastDoseAtOrBefore(doses, l.time)]!;
@@ -149,14 +167,29 @@ export function twoLevelEstimate(input: {
     }
   }
   const next = doses[pa + 1];
-  const interval = next ? next.time - dose.time : pa > 0 ? dose.time - doses[pa - 1]!.time : o.interval;
-  let form: Exclude<TwoLevelForm, 'auto'> = o.form === 'auto' ? (pa === 0 ? 'first-dose' : 'steady-state') : o.form;
+  const interval = next
+    ? next.time - dose.time
+    : pa > 0
+      ? dose.time - doses[pa - 1]!.time
+      : o.interval;
+  let form: Exclude<TwoLevelForm, 'auto'> =
+    o.form === 'auto' ? (pa === 0 ? 'first-dose' : 'steady-state') : o.form;
   if (o.form === 'auto' && pa > 0 && o.predoseLevel !== undefined) form = 'measured-predose';
   if (form === 'steady-state' && interval === undefined) {
-    refusals.push({ code: 'no-interval', message: 'The steady-state form needs the dosing interval; give a next dose or options.interval.' });
+    refusals.push({
+      code: 'no-interval',
+      message:
+        'The steady-state form needs the dosing interval; give a next dose or options.interval.',
+    });
   }
-  if (form === 'measured-predose' && (o.predoseLevel === undefined || !Number.isFinite(o.predoseLevel) || o.predoseLevel < 0)) {
-    refusals.push({ code: 'no-predose-level', message: 'The measured-predose form needs options.predoseLevel (mg/L).' });
+  if (
+    form === 'measured-predose' &&
+    (o.predoseLevel === undefined || !Number.isFinite(o.predoseLevel) || o.predoseLevel < 0)
+  ) {
+    refusals.push({
+      code: 'no-predose-level',
+      message: 'The measured-predose form needs options.predoseLevel (mg/L).',
+    });
   }
   if (refusals.length > 0) return { outcome: 'refused', refusals, warnings };
 
@@ -176,14 +209,21 @@ export function twoLevelEstimate(input: {
   if (!(V > 0) || !Number.isFinite(V)) {
     return {
       outcome: 'refused',
-      refusals: [{ code: 'not-falling', message: 'The pre-dose level is too high for these levels; the volume would not be positive.' }],
+      refusals: [
+        {
+          code: 'not-falling',
+          message:
+            'The pre-dose level is too high for these levels; the volume would not be positive.',
+        },
+      ],
       warnings,
     };
   }
   if (form === 'first-dose' && pa > 0) {
     warnings.push({
       code: 'earlier-doses-ignored',
-      message: 'The first-dose form assumes nothing was left from earlier doses, but earlier doses exist.',
+      message:
+        'The first-dose form assumes nothing was left from earlier doses, but earlier doses exist.',
     });
   }
   if (form === 'steady-state') {
@@ -205,11 +245,27 @@ export function twoLevelEstimate(input: {
   }
   let auc24: number | undefined;
   if (interval !== undefined) {
-    const cmaxSs = form === 'steady-state' ? cmax : (R0 / CL) * (1 - Math.exp(-k * T)) / (1 - Math.exp(-k * interval));
+    const cmaxSs =
+      form === 'steady-state'
+        ? cmax
+        : ((R0 / CL) * (1 - Math.exp(-k * T))) / (1 - Math.exp(-k * interval));
     const cminSs = cmaxSs * Math.exp(-k * (interval - T));
     auc24 = ((T * (cmaxSs + cminSs)) / 2 + (cmaxSs - cminSs) / k) * (24 / interval);
   }
-  return { outcome: 'estimated', k, V, CL, halfLife, cmax, cmin, form, interval, auc24, sampledDose: dose.index, warnings };
+  return {
+    outcome: 'estimated',
+    k,
+    V,
+    CL,
+    halfLife,
+    cmax,
+    cmin,
+    form,
+    interval,
+    auc24,
+    sampledDose: dose.index,
+    warnings,
+  };
 }
 
 /**
@@ -233,7 +289,12 @@ export function designPeakTroughRegimen(input: {
 }): {
   readonly interval: number;
   readonly dose: number;
-  readonly practical?: { readonly interval: number; readonly dose: number; readonly peak: number; readonly trough: number };
+  readonly practical?: {
+    readonly interval: number;
+    readonly dose: number;
+    readonly peak: number;
+    readonly trough: number;
+  };
 } {
   const fn = 'designPeakTroughRegimen';
   for (const f of ['k', 'V', 'targetPeak', 'targetTrough', 'infusionDuration'] as const) {
@@ -242,8 +303,14 @@ export function designPeakTroughRegimen(input: {
     }
   }
   const { k, V, targetPeak: cmax, targetTrough: cmin, infusionDuration: T } = input;
-  if (cmax <= cmin) throw new EngineError('invalid-input', `${fn}: targetPeak must exceed targetTrough`, 'targetPeak');
-  const doseFor = (tau: number): number => ((cmax * k * V * (1 - Math.exp(-k * tau))) / (1 - Math.exp(-k * T))) * T;
+  if (cmax <= cmin)
+    throw new EngineError(
+      'invalid-input',
+      `${fn}: targetPeak must exceed targetTrough`,
+      'targetPeak',
+    );
+  const doseFor = (tau: number): number =>
+    ((cmax * k * V * (1 - Math.exp(-k * tau))) / (1 - Math.exp(-k * T))) * T;
   const interval = Math.log(cmax / cmin) / k + T;
   const exact = { interval, dose: doseFor(interval) };
   if (!input.practicalIntervals || input.practicalIntervals.length === 0) return exact;
@@ -254,5 +321,8 @@ export function designPeakTroughRegimen(input: {
   const dose = Math.max(step, Math.round(doseFor(tau) / step) * step);
   const R0 = dose / T;
   const peak = ((R0 / (k * V)) * (1 - Math.exp(-k * T))) / (1 - Math.exp(-k * tau));
-  return { ...exact, practical: { interval: tau, dose, peak, trough: peak * Math.exp(-k * (tau - T)) } };
+  return {
+    ...exact,
+    practical: { interval: tau, dose, peak, trough: peak * Math.exp(-k * (tau - T)) },
+  };
 }

@@ -13,7 +13,13 @@ import { dirname, join } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { isMainThread, parentPort, Worker, workerData } from 'node:worker_threads';
 import { EngineError } from '../errors';
-import { mergePtaResults, probabilityOfTargetAttainment, ptaChunks, type PtaInput, type PtaResult } from './pta';
+import {
+  mergePtaResults,
+  probabilityOfTargetAttainment,
+  ptaChunks,
+  type PtaInput,
+  type PtaResult,
+} from './pta';
 
 export interface PtaPoolOptions {
   /** Worker threads (default: available parallelism, at most 8). */
@@ -23,17 +29,31 @@ export interface PtaPoolOptions {
 }
 
 type ChunkRequest = { readonly id: number; readonly input: PtaInput };
-type ChunkReply = { readonly id: number; readonly result?: PtaResult; readonly error?: { code: string; message: string; field?: string } };
+type ChunkReply = {
+  readonly id: number;
+  readonly result?: PtaResult;
+  readonly error?: { code: string; message: string; field?: string };
+};
 
 const MARK = 'ebbtidePta';
 
-if (!isMainThread && parentPort && (workerData as Record<string, unknown> | null)?.[MARK] === true) {
+if (
+  !isMainThread &&
+  parentPort &&
+  (workerData as Record<string, unknown> | null)?.[MARK] === true
+) {
   const port = parentPort;
   port.on('message', (msg: ChunkRequest) => {
     try {
-      port.postMessage({ id: msg.id, result: probabilityOfTargetAttainment(msg.input) } satisfies ChunkReply);
+      port.postMessage({
+        id: msg.id,
+        result: probabilityOfTargetAttainment(msg.input),
+      } satisfies ChunkReply);
     } catch (e) {
-      const err = e instanceof EngineError ? { code: e.code, message: e.message, field: e.field } : { code: 'worker-error', message: String(e) };
+      const err =
+        e instanceof EngineError
+          ? { code: e.code, message: e.message, field: e.field }
+          : { code: 'worker-error', message: String(e) };
       port.postMessage({ id: msg.id, error: err } satisfies ChunkReply);
     }
   });
@@ -72,7 +92,10 @@ export function createPtaPool(options: Partial<Pick<PtaPoolOptions, 'workers'>> 
   const size = Math.max(1, Math.floor(options.workers ?? Math.min(8, availableParallelism())));
   const pool = Array.from({ length: size }, () => startWorker());
   let nextId = 0;
-  const pending = new Map<number, { resolve: (r: PtaResult) => void; reject: (e: Error) => void }>();
+  const pending = new Map<
+    number,
+    { resolve: (r: PtaResult) => void; reject: (e: Error) => void }
+  >();
   for (const w of pool) {
     w.on('message', (msg: ChunkReply) => {
       const p = pending.get(msg.id);
@@ -124,7 +147,10 @@ export function createPtaPool(options: Partial<Pick<PtaPoolOptions, 'workers'>> 
  * @throws EngineError as the core (validated in the calling thread first), or `worker-error`.
  * @example await probabilityOfTargetAttainmentInPool(input, { workers: 2 }) // => same as probabilityOfTargetAttainment(input)
  */
-export async function probabilityOfTargetAttainmentInPool(input: PtaInput, options: Partial<PtaPoolOptions> = {}): Promise<PtaResult> {
+export async function probabilityOfTargetAttainmentInPool(
+  input: PtaInput,
+  options: Partial<PtaPoolOptions> = {},
+): Promise<PtaResult> {
   const pool = createPtaPool(options);
   try {
     return await pool.run(input, options.chunks);

@@ -23,7 +23,10 @@ import { fillStandardNormals, mulberry32, streamSeed } from './random';
 
 /** Where virtual patients come from. */
 export type PtaSource =
-  | { readonly kind: 'population'; readonly prior: Pick<PopulationPrior, 'typical' | 'variability'> }
+  | {
+      readonly kind: 'population';
+      readonly prior: Pick<PopulationPrior, 'typical' | 'variability'>;
+    }
   | {
       readonly kind: 'posterior';
       /** All parameters at the posterior mode (`fitMap().parameters`). */
@@ -78,23 +81,43 @@ export interface PtaResult {
   readonly counters: { readonly virtualPatients: number; readonly modelEvaluations: number };
 }
 
-function centreAndFactor(fn: string, source: PtaSource): { names: string[]; centre: Record<string, number>; L: number[][] } {
+function centreAndFactor(
+  fn: string,
+  source: PtaSource,
+): { names: string[]; centre: Record<string, number>; L: number[][] } {
   if (source?.kind === 'population') {
-    const names = Object.keys(source.prior.variability).filter((k) => source.prior.variability[k]! > 0);
-    const L = names.map((a, i) => names.map((_, j) => (i === j ? source.prior.variability[a]! : 0)));
+    const names = Object.keys(source.prior.variability).filter(
+      (k) => source.prior.variability[k]! > 0,
+    );
+    const L = names.map((a, i) =>
+      names.map((_, j) => (i === j ? source.prior.variability[a]! : 0)),
+    );
     return { names, centre: { ...source.prior.typical }, L };
   }
   if (source?.kind === 'posterior') {
     const n = source.estimated.length;
     const c = source.covarianceEta;
     if (!Array.isArray(c) || c.length !== n || c.some((r) => r.length !== n)) {
-      throw new EngineError('invalid-input', `${fn}: source.covarianceEta must be ${n}×${n}`, 'source.covarianceEta');
+      throw new EngineError(
+        'invalid-input',
+        `${fn}: source.covarianceEta must be ${n}×${n}`,
+        'source.covarianceEta',
+      );
     }
     const L = cholesky(c);
-    if (!L) throw new EngineError('invalid-input', `${fn}: source.covarianceEta is not positive definite`, 'source.covarianceEta');
+    if (!L)
+      throw new EngineError(
+        'invalid-input',
+        `${fn}: source.covarianceEta is not positive definite`,
+        'source.covarianceEta',
+      );
     return { names: [...source.estimated], centre: { ...source.parameters }, L };
   }
-  throw new EngineError('invalid-input', `${fn}: source.kind must be "population" or "posterior"`, 'source.kind');
+  throw new EngineError(
+    'invalid-input',
+    `${fn}: source.kind must be "population" or "posterior"`,
+    'source.kind',
+  );
 }
 
 /**
@@ -106,20 +129,42 @@ function centreAndFactor(fn: string, source: PtaSource): { names: string[]; cent
  */
 export function probabilityOfTargetAttainment(input: PtaInput): PtaResult {
   const fn = 'probabilityOfTargetAttainment';
-  if (input == null || typeof input !== 'object') throw new EngineError('invalid-input', `${fn}: input must be an object`, 'input');
-  if (!Number.isInteger(input.n) || input.n < 1) throw new EngineError('invalid-input', `${fn}: n must be a positive integer`, 'n');
-  if (!Number.isInteger(input.seed)) throw new EngineError('invalid-input', `${fn}: seed must be an integer`, 'seed');
+  if (input == null || typeof input !== 'object')
+    throw new EngineError('invalid-input', `${fn}: input must be an object`, 'input');
+  if (!Number.isInteger(input.n) || input.n < 1)
+    throw new EngineError('invalid-input', `${fn}: n must be a positive integer`, 'n');
+  if (!Number.isInteger(input.seed))
+    throw new EngineError('invalid-input', `${fn}: seed must be an integer`, 'seed');
   const [start, end] = input.range ?? [0, input.n];
-  if (!Number.isInteger(start) || !Number.isInteger(end) || start < 0 || end > input.n || start > end) {
-    throw new EngineError('invalid-input', `${fn}: range must be integers with 0 ≤ start ≤ end ≤ n`, 'range');
+  if (
+    !Number.isInteger(start) ||
+    !Number.isInteger(end) ||
+    start < 0 ||
+    end > input.n ||
+    start > end
+  ) {
+    throw new EngineError(
+      'invalid-input',
+      `${fn}: range must be integers with 0 ≤ start ≤ end ≤ n`,
+      'range',
+    );
   }
   validateTarget(fn, input.target);
   if (!Array.isArray(input.regimens) || input.regimens.length === 0) {
     throw new EngineError('invalid-input', `${fn}: regimens must be a non-empty array`, 'regimens');
   }
   input.regimens.forEach((r, i) => {
-    if (!(r.amount >= 0) || !(r.interval > 0) || !(r.infusionDuration >= 0) || r.infusionDuration >= r.interval) {
-      throw new EngineError('invalid-input', `${fn}: regimens[${i}] needs amount ≥ 0, interval > 0 and 0 ≤ infusionDuration < interval`, `regimens[${i}]`);
+    if (
+      !(r.amount >= 0) ||
+      !(r.interval > 0) ||
+      !(r.infusionDuration >= 0) ||
+      r.infusionDuration >= r.interval
+    ) {
+      throw new EngineError(
+        'invalid-input',
+        `${fn}: regimens[${i}] needs amount ≥ 0, interval > 0 and 0 ≤ infusionDuration < interval`,
+        `regimens[${i}]`,
+      );
     }
   });
   const { names, centre, L } = centreAndFactor(fn, input.source);
@@ -147,12 +192,18 @@ export function probabilityOfTargetAttainment(input: PtaInput): PtaResult {
     for (let r = 0; r < doses.length; r++) {
       const reg = input.regimens[r]!;
       const d = doses[r]!;
-      const peak = steadyStateConcentration(m, d, reg.interval, Math.min(reg.infusionDuration + peakDelay, reg.interval));
+      const peak = steadyStateConcentration(
+        m,
+        d,
+        reg.interval,
+        Math.min(reg.infusionDuration + peakDelay, reg.interval),
+      );
       const trough = steadyStateConcentration(m, d, reg.interval, reg.interval);
       const auc24 = (m.F * reg.amount * 24) / reg.interval / m.CL;
       const met = targetsMet({ auc24, peak, trough }, input.target);
       if (met.all) attained[r]!++;
-      for (const [key, ok] of Object.entries(met.each)) if (ok) perTarget[r]![key] = (perTarget[r]![key] ?? 0) + 1;
+      for (const [key, ok] of Object.entries(met.each))
+        if (ok) perTarget[r]![key] = (perTarget[r]![key] ?? 0) + 1;
       for (const key of Object.keys(met.each)) perTarget[r]![key] ??= 0;
     }
   }
@@ -162,19 +213,30 @@ export function probabilityOfTargetAttainment(input: PtaInput): PtaResult {
     n: input.n,
     seed: input.seed,
     range: [start, end],
-    regimens: input.regimens.map((regimen, r) => summarise(regimen, attained[r]!, evaluated, perTarget[r]!)),
+    regimens: input.regimens.map((regimen, r) =>
+      summarise(regimen, attained[r]!, evaluated, perTarget[r]!),
+    ),
     counters: { virtualPatients: evaluated, modelEvaluations },
   };
 }
 
-function summarise(regimen: PtaRegimen, att: number, evaluated: number, counts: Record<string, number>): PtaRegimenResult {
+function summarise(
+  regimen: PtaRegimen,
+  att: number,
+  evaluated: number,
+  counts: Record<string, number>,
+): PtaRegimenResult {
   const pr = evaluated > 0 ? att / evaluated : 0;
   const perTarget: Record<string, number> = {};
   for (const [key, c] of Object.entries(counts)) perTarget[key] = evaluated > 0 ? c / evaluated : 0;
   return {
-    regimen, attained: att, evaluated, probability: pr,
+    regimen,
+    attained: att,
+    evaluated,
+    probability: pr,
     standardError: evaluated > 0 ? Math.sqrt((pr * (1 - pr)) / evaluated) : 0,
-    perTarget, perTargetCounts: { ...counts },
+    perTarget,
+    perTargetCounts: { ...counts },
   };
 }
 
@@ -192,7 +254,8 @@ export function ptaChunks(n: number, chunks: number): [number, number][] {
  */
 export function mergePtaResults(parts: readonly PtaResult[]): PtaResult {
   const fn = 'mergePtaResults';
-  if (parts.length === 0) throw new EngineError('invalid-input', `${fn}: nothing to merge`, 'parts');
+  if (parts.length === 0)
+    throw new EngineError('invalid-input', `${fn}: nothing to merge`, 'parts');
   const first = parts[0]!;
   const sorted = [...parts].sort((a, b) => a.range[0] - b.range[0]);
   for (let i = 0; i < sorted.length; i++) {
@@ -200,17 +263,24 @@ export function mergePtaResults(parts: readonly PtaResult[]): PtaResult {
     if (p.n !== first.n || p.seed !== first.seed || p.regimens.length !== first.regimens.length) {
       throw new EngineError('invalid-input', `${fn}: parts come from different runs`, 'parts');
     }
-    if (i > 0 && p.range[0] < sorted[i - 1]!.range[1]) throw new EngineError('invalid-input', `${fn}: chunks overlap`, 'parts');
+    if (i > 0 && p.range[0] < sorted[i - 1]!.range[1])
+      throw new EngineError('invalid-input', `${fn}: chunks overlap`, 'parts');
   }
   const evaluated = sorted.reduce((s, p) => s + (p.range[1] - p.range[0]), 0);
   const regimens = first.regimens.map((r0, r) => {
     const att = sorted.reduce((s, p) => s + p.regimens[r]!.attained, 0);
     const counts: Record<string, number> = {};
-    for (const p of sorted) for (const [k, c] of Object.entries(p.regimens[r]!.perTargetCounts)) counts[k] = (counts[k] ?? 0) + c;
+    for (const p of sorted)
+      for (const [k, c] of Object.entries(p.regimens[r]!.perTargetCounts))
+        counts[k] = (counts[k] ?? 0) + c;
     return summarise(r0.regimen, att, evaluated, counts);
   });
   return {
-    outcome: 'completed', n: first.n, seed: first.seed, range: [sorted[0]!.range[0], sorted[sorted.length - 1]!.range[1]], regimens,
+    outcome: 'completed',
+    n: first.n,
+    seed: first.seed,
+    range: [sorted[0]!.range[0], sorted[sorted.length - 1]!.range[1]],
+    regimens,
     counters: {
       virtualPatients: sorted.reduce((s, p) => s + p.counters.virtualPatients, 0),
       modelEvaluations: sorted.reduce((s, p) => s + p.counters.modelEvaluations, 0),

@@ -17,8 +17,19 @@
 import { EngineError } from '../errors';
 import type { Dose, ModelStructure, PkParameters } from '../types';
 import type { EngineWarning } from '../estimation/types';
-import { exponentialModel, singleDoseConcentration, steadyStateConcentration, superposedAuc } from './linear-response';
-import { targetDistance, targetsMet, validateTarget, type Exposure, type ExposureTarget } from './targets';
+import {
+  exponentialModel,
+  singleDoseConcentration,
+  steadyStateConcentration,
+  superposedAuc,
+} from './linear-response';
+import {
+  targetDistance,
+  targetsMet,
+  validateTarget,
+  type Exposure,
+  type ExposureTarget,
+} from './targets';
 
 export interface RegimenSearchOptions {
   /** Dose rounding, mg (vancomycin 250 mg: common practice, many protocols round to 250 mg). */
@@ -66,13 +77,28 @@ export const regimenSearchDefaultOptions: Readonly<RegimenSearchOptions> = Objec
  * 2020 consensus), max daily 4500 mg (from memory: 2020 guideline, obese patients), ≤ 1000 mg/h (consensus summary).
  * aminoglycosides: 10 mg steps, 0.5 h infusions, extended intervals (common practice).
  */
-export const regimenPresets: Readonly<Record<string, Readonly<Partial<RegimenSearchOptions>>>> = Object.freeze({
-  vancomycin: Object.freeze({ amountStep: 250, minAmount: 500, maxSingleDose: 3000, maxDailyDose: 4500, maxInfusionRate: 1000, minInfusionDuration: 1, peakDelay: 1 }),
-  gentamicin: Object.freeze({
-    amountStep: 10, minAmount: 40, maxSingleDose: 800, maxDailyDose: 800, maxInfusionRate: 2000, minInfusionDuration: 0.5,
-    intervals: Object.freeze([8, 12, 24, 36, 48]), peakDelay: 0.5,
-  }),
-});
+export const regimenPresets: Readonly<Record<string, Readonly<Partial<RegimenSearchOptions>>>> =
+  Object.freeze({
+    vancomycin: Object.freeze({
+      amountStep: 250,
+      minAmount: 500,
+      maxSingleDose: 3000,
+      maxDailyDose: 4500,
+      maxInfusionRate: 1000,
+      minInfusionDuration: 1,
+      peakDelay: 1,
+    }),
+    gentamicin: Object.freeze({
+      amountStep: 10,
+      minAmount: 40,
+      maxSingleDose: 800,
+      maxDailyDose: 800,
+      maxInfusionRate: 2000,
+      minInfusionDuration: 0.5,
+      intervals: Object.freeze([8, 12, 24, 36, 48]),
+      peakDelay: 0.5,
+    }),
+  });
 
 export interface RegimenCandidate {
   readonly amount: number;
@@ -102,7 +128,10 @@ export interface RegimenSearchResult {
 
 function infusionTime(amount: number, o: RegimenSearchOptions): number {
   const byRate = amount / o.maxInfusionRate;
-  return Math.max(o.minInfusionDuration, Math.ceil(byRate / o.durationStep - 1e-9) * o.durationStep);
+  return Math.max(
+    o.minInfusionDuration,
+    Math.ceil(byRate / o.durationStep - 1e-9) * o.durationStep,
+  );
 }
 
 /**
@@ -120,11 +149,32 @@ export function findRegimens(input: {
   const fn = 'findRegimens';
   const o: RegimenSearchOptions = { ...regimenSearchDefaultOptions, ...(input.options ?? {}) };
   validateTarget(fn, input.target);
-  for (const f of ['amountStep', 'minAmount', 'maxSingleDose', 'maxDailyDose', 'maxInfusionRate', 'minInfusionDuration', 'durationStep'] as const) {
-    if (!(Number.isFinite(o[f]) && o[f] > 0)) throw new EngineError('invalid-input', `${fn}: options.${f} must be positive`, `options.${f}`);
+  for (const f of [
+    'amountStep',
+    'minAmount',
+    'maxSingleDose',
+    'maxDailyDose',
+    'maxInfusionRate',
+    'minInfusionDuration',
+    'durationStep',
+  ] as const) {
+    if (!(Number.isFinite(o[f]) && o[f] > 0))
+      throw new EngineError(
+        'invalid-input',
+        `${fn}: options.${f} must be positive`,
+        `options.${f}`,
+      );
   }
-  if (!Array.isArray(o.intervals) || o.intervals.length === 0 || o.intervals.some((t) => !(t > 0))) {
-    throw new EngineError('invalid-input', `${fn}: options.intervals must be positive hours`, 'options.intervals');
+  if (
+    !Array.isArray(o.intervals) ||
+    o.intervals.length === 0 ||
+    o.intervals.some((t) => !(t > 0))
+  ) {
+    throw new EngineError(
+      'invalid-input',
+      `${fn}: options.intervals must be positive hours`,
+      'options.intervals',
+    );
   }
   const m = exponentialModel(input.model, input.parameters);
   const warnings: EngineWarning[] = [];
@@ -132,7 +182,11 @@ export function findRegimens(input: {
   const all: RegimenCandidate[] = [];
   for (const tau of o.intervals) {
     const maxAmount = Math.min(o.maxSingleDose, (o.maxDailyDose * tau) / 24);
-    for (let amount = Math.ceil(o.minAmount / o.amountStep) * o.amountStep; amount <= maxAmount + 1e-9; amount += o.amountStep) {
+    for (
+      let amount = Math.ceil(o.minAmount / o.amountStep) * o.amountStep;
+      amount <= maxAmount + 1e-9;
+      amount += o.amountStep
+    ) {
       const T = infusionTime(amount, o);
       if (T >= tau) continue;
       const dose: Dose = { time: 0, amount, route: 'infusion', duration: T };
@@ -146,21 +200,41 @@ export function findRegimens(input: {
         const ratio = peak / singleDoseConcentration(m, dose, peakAt);
         modelEvaluations++;
         const cap = Math.min(o.loadingDose.cap, o.maxSingleDose);
-        const la = Math.min(Math.floor(cap / o.amountStep) * o.amountStep, Math.round((amount * ratio) / o.amountStep) * o.amountStep);
+        const la = Math.min(
+          Math.floor(cap / o.amountStep) * o.amountStep,
+          Math.round((amount * ratio) / o.amountStep) * o.amountStep,
+        );
         if (la > amount) loading = { amount: la, infusionDuration: infusionTime(la, o) };
       }
       const start = o.startTime;
       const schedule: Dose[] = [];
-      if (loading) schedule.push({ time: start, amount: loading.amount, route: 'infusion', duration: loading.infusionDuration });
-      for (let t = loading ? start + tau : start; t < start + 48 - 1e-9; t += tau) schedule.push({ time: t, amount, route: 'infusion', duration: T });
+      if (loading)
+        schedule.push({
+          time: start,
+          amount: loading.amount,
+          route: 'infusion',
+          duration: loading.infusionDuration,
+        });
+      for (let t = loading ? start + tau : start; t < start + 48 - 1e-9; t += tau)
+        schedule.push({ time: t, amount, route: 'infusion', duration: T });
       const auc24FirstDay = superposedAuc(m, schedule, start, start + 24);
       modelEvaluations++;
       const exposure = { auc24, peak, trough };
       const met = targetsMet(exposure, input.target);
       all.push({
-        amount, interval: tau, infusionDuration: T, dosesPerDay: 24 / tau, dailyDose: (amount * 24) / tau,
-        loadingDose: loading, firstMaintenanceTime: loading ? start + tau : start, steadyState: exposure, auc24FirstDay,
-        met: met.each, allTargetsMet: met.all, distance: targetDistance(exposure, input.target), schedule,
+        amount,
+        interval: tau,
+        infusionDuration: T,
+        dosesPerDay: 24 / tau,
+        dailyDose: (amount * 24) / tau,
+        loadingDose: loading,
+        firstMaintenanceTime: loading ? start + tau : start,
+        steadyState: exposure,
+        auc24FirstDay,
+        met: met.each,
+        allTargetsMet: met.all,
+        distance: targetDistance(exposure, input.target),
+        schedule,
       });
     }
   }
@@ -177,11 +251,16 @@ export function findRegimens(input: {
   if (!anyMet) {
     warnings.push({
       code: 'no-regimen-meets-targets',
-      message: 'No regimen within the dose caps, intervals and infusion-rate limit meets every target; the closest are listed.',
+      message:
+        'No regimen within the dose caps, intervals and infusion-rate limit meets every target; the closest are listed.',
     });
   }
   if (input.target.trough && !input.target.auc24) {
-    warnings.push({ code: 'trough-only-target', message: 'A trough-only target; for vancomycin the 2020 consensus prefers AUC24-guided dosing.' });
+    warnings.push({
+      code: 'trough-only-target',
+      message:
+        'A trough-only target; for vancomycin the 2020 consensus prefers AUC24-guided dosing.',
+    });
   }
   return {
     outcome: anyMet ? 'targets-met' : 'no-regimen-meets-targets',

@@ -33,9 +33,17 @@ export interface ExponentialModel {
  * @throws EngineError `not-linear` for Michaelis-Menten elimination; `invalid-input` from `resolveModel`.
  * @example exponentialModel({ compartments: 1, elimination: 'linear' }, { CL: 5, V1: 50 }).lambda // => [0.1]
  */
-export function exponentialModel(model: ModelStructure, parameters: PkParameters, needsAbsorption = false): ExponentialModel {
+export function exponentialModel(
+  model: ModelStructure,
+  parameters: PkParameters,
+  needsAbsorption = false,
+): ExponentialModel {
   if (model?.elimination === 'michaelis-menten') {
-    throw new EngineError('not-linear', 'exponentialModel: Michaelis-Menten elimination has no exponential-sum solution', 'model.elimination');
+    throw new EngineError(
+      'not-linear',
+      'exponentialModel: Michaelis-Menten elimination has no exponential-sum solution',
+      'model.elimination',
+    );
   }
   const m = resolveModel(model, parameters, needsAbsorption, 'exponentialModel');
   const CL = m.k10 * m.V1;
@@ -44,7 +52,14 @@ export function exponentialModel(model: ModelStructure, parameters: PkParameters
   }
   const [al, be] = macroRateConstants(m.k10, m.k12, m.k21);
   const d = m.V1 * (al - be);
-  return { a: [(al - m.k21) / d, (m.k21 - be) / d], lambda: [al, be], ka: m.ka, F: m.F, tlag: m.tlag, CL };
+  return {
+    a: [(al - m.k21) / d, (m.k21 - be) / d],
+    lambda: [al, be],
+    ka: m.ka,
+    F: m.F,
+    tlag: m.tlag,
+    CL,
+  };
 }
 
 const ORAL_SINGULAR = 1e-6;
@@ -65,7 +80,8 @@ export function singleDoseConcentration(m: ExponentialModel, dose: Dose, s: numb
       const t = s - m.tlag;
       if (t <= 0) continue;
       const ka = m.ka;
-      if (Math.abs(ka - l) < ORAL_SINGULAR * l) c += m.F * dose.amount * A * ka * t * Math.exp(-l * t);
+      if (Math.abs(ka - l) < ORAL_SINGULAR * l)
+        c += m.F * dose.amount * A * ka * t * Math.exp(-l * t);
       else c += ((m.F * dose.amount * A * ka) / (ka - l)) * (Math.exp(-l * t) - Math.exp(-ka * t));
     }
   }
@@ -94,7 +110,9 @@ export function singleDoseAuc(m: ExponentialModel, dose: Dose, s: number): numbe
         // ∫0^t ka·u·e^(−λu) du
         auc += m.F * dose.amount * A * ka * ((1 - Math.exp(-l * t) * (1 + l * t)) / (l * l));
       } else {
-        auc += ((m.F * dose.amount * A * ka) / (ka - l)) * ((1 - Math.exp(-l * t)) / l - (1 - Math.exp(-ka * t)) / ka);
+        auc +=
+          ((m.F * dose.amount * A * ka) / (ka - l)) *
+          ((1 - Math.exp(-l * t)) / l - (1 - Math.exp(-ka * t)) / ka);
       }
     }
   }
@@ -102,7 +120,11 @@ export function singleDoseAuc(m: ExponentialModel, dose: Dose, s: number): numbe
 }
 
 /** Concentrations (mg/L) at `times` under `doses`, by superposition. Right-continuous at a bolus. */
-export function superposedConcentrations(m: ExponentialModel, doses: readonly Dose[], times: readonly number[]): number[] {
+export function superposedConcentrations(
+  m: ExponentialModel,
+  doses: readonly Dose[],
+  times: readonly number[],
+): number[] {
   return times.map((t) => {
     let c = 0;
     for (const d of doses) if (d.time <= t) c += singleDoseConcentration(m, d, t - d.time);
@@ -111,9 +133,15 @@ export function superposedConcentrations(m: ExponentialModel, doses: readonly Do
 }
 
 /** AUC (mg·h/L) over [from, to] under `doses`, by superposition. */
-export function superposedAuc(m: ExponentialModel, doses: readonly Dose[], from: number, to: number): number {
+export function superposedAuc(
+  m: ExponentialModel,
+  doses: readonly Dose[],
+  from: number,
+  to: number,
+): number {
   let auc = 0;
-  for (const d of doses) auc += singleDoseAuc(m, d, to - d.time) - singleDoseAuc(m, d, from - d.time);
+  for (const d of doses)
+    auc += singleDoseAuc(m, d, to - d.time) - singleDoseAuc(m, d, from - d.time);
   return auc;
 }
 
@@ -122,7 +150,12 @@ export function superposedAuc(m: ExponentialModel, doses: readonly Dose[], from:
  * bolus or infusion (pk-reference A4/A6: every exponential term × 1/(1 − e^(−λτ)), here written as the
  * current dose plus the geometric sum of all earlier ones).
  */
-export function steadyStateConcentration(m: ExponentialModel, dose: Dose, tau: number, s: number): number {
+export function steadyStateConcentration(
+  m: ExponentialModel,
+  dose: Dose,
+  tau: number,
+  s: number,
+): number {
   let c = singleDoseConcentration(m, dose, s);
   for (let i = 0; i < m.a.length; i++) {
     const A = m.a[i]!;
@@ -131,9 +164,13 @@ export function steadyStateConcentration(m: ExponentialModel, dose: Dose, tau: n
     if (dose.route === 'bolus') c += dose.amount * A * Math.exp(-l * s) * acc;
     else if (dose.route === 'infusion') {
       const T = dose.duration!;
-      c += ((dose.amount / T) * A / l) * (1 - Math.exp(-l * T)) * Math.exp(-l * (s - T)) * acc;
+      c += (((dose.amount / T) * A) / l) * (1 - Math.exp(-l * T)) * Math.exp(-l * (s - T)) * acc;
     } else {
-      throw new EngineError('invalid-input', 'steadyStateConcentration: oral doses are not supported here', 'dose.route');
+      throw new EngineError(
+        'invalid-input',
+        'steadyStateConcentration: oral doses are not supported here',
+        'dose.route',
+      );
     }
   }
   return c;

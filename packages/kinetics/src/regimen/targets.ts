@@ -29,32 +29,55 @@ export interface Exposure {
 
 /** Throws unless every range is well formed. */
 export function validateTarget(fn: string, t: ExposureTarget): void {
-  if (t == null || typeof t !== 'object') throw new EngineError('invalid-input', `${fn}: target must be an object`, 'target');
+  if (t == null || typeof t !== 'object')
+    throw new EngineError('invalid-input', `${fn}: target must be an object`, 'target');
   let any = false;
   for (const k of ['auc24', 'trough', 'peak'] as const) {
     const r = t[k];
     if (r === undefined) continue;
     any = true;
     const { min, max } = r;
-    if ((min !== undefined && !(Number.isFinite(min) && min >= 0)) || (max !== undefined && !(Number.isFinite(max) && max > 0))) {
-      throw new EngineError('invalid-input', `${fn}: target.${k} min/max must be non-negative numbers`, `target.${k}`);
+    if (
+      (min !== undefined && !(Number.isFinite(min) && min >= 0)) ||
+      (max !== undefined && !(Number.isFinite(max) && max > 0))
+    ) {
+      throw new EngineError(
+        'invalid-input',
+        `${fn}: target.${k} min/max must be non-negative numbers`,
+        `target.${k}`,
+      );
     }
-    if (min === undefined && max === undefined) throw new EngineError('invalid-input', `${fn}: target.${k} needs min or max`, `target.${k}`);
-    if (min !== undefined && max !== undefined && min > max) throw new EngineError('invalid-input', `${fn}: target.${k}.min exceeds max`, `target.${k}`);
+    if (min === undefined && max === undefined)
+      throw new EngineError('invalid-input', `${fn}: target.${k} needs min or max`, `target.${k}`);
+    if (min !== undefined && max !== undefined && min > max)
+      throw new EngineError('invalid-input', `${fn}: target.${k}.min exceeds max`, `target.${k}`);
   }
   if (t.peakToMic !== undefined) {
     any = true;
     if (!(t.peakToMic.min > 0) || !(t.peakToMic.mic > 0)) {
-      throw new EngineError('invalid-input', `${fn}: target.peakToMic needs positive min and mic`, 'target.peakToMic');
+      throw new EngineError(
+        'invalid-input',
+        `${fn}: target.peakToMic needs positive min and mic`,
+        'target.peakToMic',
+      );
     }
   }
-  if (!any) throw new EngineError('invalid-input', `${fn}: target must give at least one of auc24, trough, peak, peakToMic`, 'target');
+  if (!any)
+    throw new EngineError(
+      'invalid-input',
+      `${fn}: target must give at least one of auc24, trough, peak, peakToMic`,
+      'target',
+    );
 }
 
-const inRange = (v: number, r: Range): boolean => (r.min === undefined || v >= r.min) && (r.max === undefined || v <= r.max);
+const inRange = (v: number, r: Range): boolean =>
+  (r.min === undefined || v >= r.min) && (r.max === undefined || v <= r.max);
 
 /** Which targets are met. */
-export function targetsMet(e: Exposure, t: ExposureTarget): { readonly all: boolean; readonly each: Record<string, boolean> } {
+export function targetsMet(
+  e: Exposure,
+  t: ExposureTarget,
+): { readonly all: boolean; readonly each: Record<string, boolean> } {
   const each: Record<string, boolean> = {};
   if (t.auc24) each.auc24 = inRange(e.auc24, t.auc24);
   if (t.trough) each.trough = inRange(e.trough, t.trough);

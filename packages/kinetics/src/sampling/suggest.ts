@@ -119,27 +119,59 @@ export function suggestSamplingTimes(input: {
   const fn = 'suggestSamplingTimes';
   const o: SamplingOptions = { ...samplingDefaultOptions, ...(input.options ?? {}) };
   const { doses, doseIndex, estimated } = input;
-  if (!Array.isArray(doses) || !Number.isInteger(doseIndex) || doseIndex < 0 || doseIndex >= doses.length) {
-    throw new EngineError('invalid-input', `${fn}: doseIndex must index a dose in doses`, 'doseIndex');
+  if (
+    !Array.isArray(doses) ||
+    !Number.isInteger(doseIndex) ||
+    doseIndex < 0 ||
+    doseIndex >= doses.length
+  ) {
+    throw new EngineError(
+      'invalid-input',
+      `${fn}: doseIndex must index a dose in doses`,
+      'doseIndex',
+    );
   }
   const n = estimated.length;
-  if (n === 0) throw new EngineError('invalid-input', `${fn}: estimated must name at least one parameter`, 'estimated');
+  if (n === 0)
+    throw new EngineError(
+      'invalid-input',
+      `${fn}: estimated must name at least one parameter`,
+      'estimated',
+    );
   const sigma0 = input.covarianceEta;
   if (!Array.isArray(sigma0) || sigma0.length !== n || sigma0.some((r) => r.length !== n)) {
-    throw new EngineError('invalid-input', `${fn}: covarianceEta must be ${n}×${n}`, 'covarianceEta');
+    throw new EngineError(
+      'invalid-input',
+      `${fn}: covarianceEta must be ${n}×${n}`,
+      'covarianceEta',
+    );
   }
   const p0 = inverseSpd(sigma0);
-  if (!p0) throw new EngineError('invalid-input', `${fn}: covarianceEta is not positive definite`, 'covarianceEta');
+  if (!p0)
+    throw new EngineError(
+      'invalid-input',
+      `${fn}: covarianceEta is not positive definite`,
+      'covarianceEta',
+    );
   const dose = doses[doseIndex]!;
   const T = dose.route === 'infusion' ? (dose.duration ?? 0) : 0;
   const later = doses.filter((d) => d.time > dose.time).map((d) => d.time);
   const nextStart = later.length > 0 ? Math.min(...later) : undefined;
   if (nextStart === undefined) {
-    throw new EngineError('invalid-input', `${fn}: the named dose must be followed by another dose (its interval needs an end)`, 'doseIndex');
+    throw new EngineError(
+      'invalid-input',
+      `${fn}: the named dose must be followed by another dose (its interval needs an end)`,
+      'doseIndex',
+    );
   }
   const interval = nextStart - dose.time;
   const first = dose.time + T + o.distributionPhaseHours;
-  if (first >= nextStart) throw new EngineError('invalid-input', `${fn}: the interval is too short for a post-distribution draw`, 'doses');
+  if (first >= nextStart)
+    throw new EngineError(
+      'invalid-input',
+      `${fn}: the interval is too short for a post-distribution draw`,
+      'doses',
+    );
   const times: number[] = [];
   for (let t = first; t <= nextStart + 1e-9; t += o.gridStep) times.push(Math.min(t, nextStart));
   const trough = nextStart - o.troughBeforeNextDose;
@@ -153,7 +185,11 @@ export function suggestSamplingTimes(input: {
     const p: Record<string, number> = { ...base };
     estimated.forEach((k, j) => (p[k] = base[k]! * Math.exp(eta[j]!)));
     modelEvaluations++;
-    return superposedConcentrations(exponentialModel(input.model, p as unknown as PkParameters, oral), doses, allTimes);
+    return superposedConcentrations(
+      exponentialModel(input.model, p as unknown as PkParameters, oral),
+      doses,
+      allTimes,
+    );
   };
   const auc24At = (eta: readonly number[]): number => {
     const p: Record<string, number> = { ...base };
@@ -185,13 +221,17 @@ export function suggestSamplingTimes(input: {
   const current = Math.sqrt(quadraticForm(sigma0, g));
   const evaluate = (idx: readonly number[]): DesignValue => {
     const P = p0.map((r) => r.slice());
-    for (const i of idx) for (let a = 0; a < n; a++) for (let b = 0; b < n; b++) P[a]![b]! += info[i]![a]![b]!;
+    for (const i of idx)
+      for (let a = 0; a < n; a++) for (let b = 0; b < n; b++) P[a]![b]! += info[i]![a]![b]!;
     const cov = inverseSpd(P);
     const sd = cov ? Math.sqrt(quadraticForm(cov, g)) : current;
     return {
       draws: idx.map((i) => ({
-        time: allTimes[i]!, doseIndex, hoursAfterDoseStart: allTimes[i]! - dose.time,
-        hoursAfterInfusionEnd: allTimes[i]! - dose.time - T, predicted: f0[i]!,
+        time: allTimes[i]!,
+        doseIndex,
+        hoursAfterDoseStart: allTimes[i]! - dose.time,
+        hoursAfterInfusionEnd: allTimes[i]! - dose.time - T,
+        predicted: f0[i]!,
       })),
       sdLogAuc24: sd,
       reduction: current > 0 ? 1 - sd / current : 0,
@@ -210,11 +250,15 @@ export function suggestSamplingTimes(input: {
   const bestSingle = singles[0]!;
   const warnings: EngineWarning[] = [];
   if (!estimated.includes('CL')) {
-    warnings.push({ code: 'cl-fixed', message: 'CL is fixed in this model, so no draw can change the AUC24 uncertainty.' });
+    warnings.push({
+      code: 'cl-fixed',
+      message: 'CL is fixed in this model, so no draw can change the AUC24 uncertainty.',
+    });
   }
   warnings.push({
     code: 'linearised-design',
-    message: 'Draw-time values come from a linearised (first-order) approximation around the current estimate; treat small differences as equal.',
+    message:
+      'Draw-time values come from a linearised (first-order) approximation around the current estimate; treat small differences as equal.',
   });
   return {
     currentSdLogAuc24: current,
@@ -222,7 +266,8 @@ export function suggestSamplingTimes(input: {
     bestSingle,
     bestPair,
     alternatives: singles.slice(0, o.maxAlternatives),
-    valueOfSecondLevel: bestSingle.sdLogAuc24 > 0 ? 1 - bestPair.sdLogAuc24 / bestSingle.sdLogAuc24 : 0,
+    valueOfSecondLevel:
+      bestSingle.sdLogAuc24 > 0 ? 1 - bestPair.sdLogAuc24 / bestSingle.sdLogAuc24 : 0,
     counters: { candidateTimes: times.length, modelEvaluations },
     warnings,
   };
