@@ -25,6 +25,7 @@ import {
   superposedConcentrations,
   type ExponentialModel,
 } from '../regimen/linear-response';
+import { validateDoses } from '../dosing/validate-doses';
 import { concentrationsAt } from '../simulate';
 import type { Dose, ModelStructure, PkParameters } from '../types';
 import { validateLevels } from './dose-history';
@@ -261,6 +262,7 @@ export function fitMap(input: MapFitInput): MapFitResult {
   if (!Array.isArray(input.doses) || input.doses.length === 0) {
     throw new EngineError('invalid-input', `${fn}: doses must be a non-empty array`, 'doses');
   }
+  validateDoses(input.doses, fn);
   const firstDose = Math.min(
     ...input.doses.map((d) => (d && Number.isFinite(d.time) ? d.time : Number.POSITIVE_INFINITY)),
   );
