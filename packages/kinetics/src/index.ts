@@ -145,3 +145,42 @@ export {
   type SamplingOptions,
   type SamplingSuggestion,
 } from './sampling/suggest';
+export {
+  drugModelLibrary,
+  vancomycinGoti2018,
+  gentamicinExtendedInterval,
+  tobramycinExtendedInterval,
+  amikacinExtendedInterval,
+  phenytoinGrasela1983,
+} from './library/drug-models';
+export type {
+  DrugModelEntry,
+  LibraryParameterName,
+  ParameterSpec,
+  VariabilitySpec,
+  ResidualErrorSpec,
+  CovariateSpec,
+  PracticalSettings,
+  TargetSpec,
+  Provenance,
+} from './library/types';
+export {
+  compileCovariateExpression,
+  ALLOWED_FUNCTIONS,
+  type CompiledExpression,
+} from './library/expression';
+export {
+  validateDrugModel,
+  isValidDrugModel,
+  type EntryProblem,
+  type EntryValidation,
+} from './library/validate-entry';
+export {
+  individualParameters,
+  populationPriorFromLibrary,
+  omegaFromCv,
+  type CovariateValues,
+  type IndividualParameters,
+  type LibraryPrior,
+  type LibraryWarning,
+} from './library/individual';
