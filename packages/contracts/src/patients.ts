@@ -17,26 +17,33 @@ const name = z.string().trim().min(1).max(100);
 const isoDate = z.iso.date();
 const ward = z.string().trim().min(1).max(60);
 
-const realPatientCreate = z.object({
-  isTeaching: z.literal(false).default(false),
-  mrn,
-  givenName: name,
-  familyName: name,
-  sex: sexSchema,
-  birthDate: isoDate,
-  ward: ward.nullable().optional(),
-});
+const realPatientCreate = z
+  .object({
+    isTeaching: z.literal(false),
+    mrn,
+    givenName: name,
+    familyName: name,
+    sex: sexSchema,
+    birthDate: isoDate,
+    ward: ward.nullable().optional(),
+  })
+  .strict();
 
-const teachingPatientCreate = z.object({
-  isTeaching: z.literal(true),
-  teachingLabel: z.string().trim().min(1).max(80),
-  sex: sexSchema,
-  ageYears: z.number().int().min(0).max(90),
-  ward: ward.nullable().optional(),
-});
+const teachingPatientCreate = z
+  .object({
+    isTeaching: z.literal(true),
+    teachingLabel: z.string().trim().min(1).max(80),
+    sex: sexSchema,
+    ageYears: z.number().int().min(0).max(90),
+    ward: ward.nullable().optional(),
+  })
+  .strict();
 
-/** POST /api/patients */
-export const patientCreateSchema = z.union([realPatientCreate, teachingPatientCreate]);
+/** POST /api/patients — `isTeaching` defaults to false (a real patient). */
+export const patientCreateSchema = z.preprocess(
+  (v) => (v && typeof v === 'object' && !('isTeaching' in v) ? { ...v, isTeaching: false } : v),
+  z.discriminatedUnion('isTeaching', [realPatientCreate, teachingPatientCreate]),
+);
 export type PatientCreate = z.infer<typeof patientCreateSchema>;
 
 /** PATCH /api/patients/:id — the fields to change plus the version last read. */

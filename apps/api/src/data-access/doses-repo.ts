@@ -127,6 +127,9 @@ export async function updateDose(
 }
 
 export async function deleteDose(conn: Conn, id: string, expectedVersion: number) {
-  const [row] = (await conn('doses').where({ id, version: expectedVersion }).del().returning('*')) as DoseRow[];
+  const [row] = (await conn('doses')
+    .where({ id, version: expectedVersion })
+    .del()
+    .returning('*')) as DoseRow[];
   return row ? toRecord(row) : undefined;
 }

@@ -68,8 +68,7 @@ export async function findDrugModel(
 
 export async function latestDrugModelVersion(conn: Conn, id: string): Promise<number> {
   const row = (await conn('drug_models').where({ id }).max({ v: 'version' }).first()) as
-    | { v: number | null }
-    | undefined;
+    { v: number | null } | undefined;
   return row?.v ?? 0;
 }
 
@@ -80,7 +79,9 @@ export async function listDrugModels(
   const q = conn('drug_models').select('drug_models.*');
   if (query.drug) q.where('drug', query.drug);
   if (query.allVersions !== 'true') {
-    q.whereRaw('version = (select max(d2.version) from drug_models d2 where d2.id = drug_models.id)');
+    q.whereRaw(
+      'version = (select max(d2.version) from drug_models d2 where d2.id = drug_models.id)',
+    );
   }
   const column = query.sort === 'id' ? 'id' : query.sort === 'drug' ? 'drug' : 'created_at';
   const { rows, total } = await fetchPage<DrugModelRow>(q, query, [

@@ -133,6 +133,9 @@ export async function updateLevel(
 }
 
 export async function deleteLevel(conn: Conn, id: string, expectedVersion: number) {
-  const [row] = (await conn('levels').where({ id, version: expectedVersion }).del().returning('*')) as LevelRow[];
+  const [row] = (await conn('levels')
+    .where({ id, version: expectedVersion })
+    .del()
+    .returning('*')) as LevelRow[];
   return row ? toRecord(row) : undefined;
 }

@@ -1,4 +1,11 @@
-import type { Course, CourseCreate, CourseListQuery, CourseUpdate, DrugModel, Page } from '@ebbtide/contracts';
+import type {
+  Course,
+  CourseCreate,
+  CourseListQuery,
+  CourseUpdate,
+  DrugModel,
+  Page,
+} from '@ebbtide/contracts';
 import { recordAudit } from '../../data-access/audit';
 import { inTransaction, type Conn } from '../../data-access/casework-db';
 import {
@@ -13,7 +20,13 @@ import { findDrugModel } from '../../data-access/drug-models-repo';
 import type { PatientRecord } from '../../data-access/patients-repo';
 import { notFound } from '../../lib/app-error';
 import { isInFuture, resolveTime, type ClinicalTime } from '../doses/timing';
-import { assertMayWrite, auditActor, invalid, staleVersion, type CaseworkActor } from '../patients/common';
+import {
+  assertMayWrite,
+  auditActor,
+  invalid,
+  staleVersion,
+  type CaseworkActor,
+} from '../patients/common';
 import { requirePatient } from '../patients/patients';
 
 export function toCourseDto(c: CourseRecord): Course {
@@ -52,7 +65,11 @@ export function courseStart(c: CourseRecord): ClinicalTime | null {
 }
 
 /** Loads a course the actor may see; 404 otherwise (a trainee never learns a real course exists). */
-export async function requireCourse(db: Conn, actor: CaseworkActor, id: string): Promise<CourseContext> {
+export async function requireCourse(
+  db: Conn,
+  actor: CaseworkActor,
+  id: string,
+): Promise<CourseContext> {
   const course = await findCourse(db, actor, id);
   if (!course) throw notFound('Course');
   const patient = await requirePatient(db, actor, course.patientId);
@@ -61,7 +78,12 @@ export async function requireCourse(db: Conn, actor: CaseworkActor, id: string):
   return { course, patient, model };
 }
 
-async function requireModel(db: Conn, drug: string, modelId: string, version?: number): Promise<DrugModel> {
+async function requireModel(
+  db: Conn,
+  drug: string,
+  modelId: string,
+  version?: number,
+): Promise<DrugModel> {
   const model = await findDrugModel(db, modelId, version);
   if (!model) {
     throw invalid({
@@ -70,7 +92,8 @@ async function requireModel(db: Conn, drug: string, modelId: string, version?: n
       ],
     });
   }
-  if (model.drug !== drug) throw invalid({ modelId: [`model ${modelId} is a ${model.drug} model, not ${drug}`] });
+  if (model.drug !== drug)
+    throw invalid({ modelId: [`model ${modelId} is a ${model.drug} model, not ${drug}`] });
   return model;
 }
 
@@ -85,8 +108,17 @@ export async function createCourse(
   assertMayWrite(actor, patient.isTeaching);
   const model = await requireModel(db, input.drug, input.modelId, input.modelVersion);
   const errors: Record<string, string[]> = {};
-  const started = resolveTime(patient.isTeaching, input.startedAt, input.startedHour, 'startedAt', 'startedHour', errors, false);
-  if (started && isInFuture(started, now)) (errors.startedAt ??= []).push('the course start is in the future');
+  const started = resolveTime(
+    patient.isTeaching,
+    input.startedAt,
+    input.startedHour,
+    'startedAt',
+    'startedHour',
+    errors,
+    false,
+  );
+  if (started && isInFuture(started, now))
+    (errors.startedAt ??= []).push('the course start is in the future');
   if (Object.keys(errors).length) throw invalid(errors);
   const columns: CourseColumns = {
     patient_id: patient.id,
@@ -123,18 +155,32 @@ export async function getCourse(db: Conn, actor: CaseworkActor, id: string): Pro
   return toCourseDto((await requireCourse(db, actor, id)).course);
 }
 
-export async function browseCourses(db: Conn, actor: CaseworkActor, query: CourseListQuery): Promise<Page<Course>> {
+export async function browseCourses(
+  db: Conn,
+  actor: CaseworkActor,
+  query: CourseListQuery,
+): Promise<Page<Course>> {
   const { items, total } = await listCourses(db, actor, query);
   return { items: items.map(toCourseDto), page: query.page, pageSize: query.pageSize, total };
 }
 
-export async function editCourse(db: Conn, actor: CaseworkActor, id: string, input: CourseUpdate): Promise<Course> {
+export async function editCourse(
+  db: Conn,
+  actor: CaseworkActor,
+  id: string,
+  input: CourseUpdate,
+): Promise<Course> {
   const { course: before } = await requireCourse(db, actor, id);
   assertMayWrite(actor, before.isTeaching);
   const { version, ...changes } = input;
   const columns: CourseColumns = {};
   if (changes.modelId !== undefined || changes.modelVersion !== undefined) {
-    const model = await requireModel(db, before.drug, changes.modelId ?? before.modelId, changes.modelVersion);
+    const model = await requireModel(
+      db,
+      before.drug,
+      changes.modelId ?? before.modelId,
+      changes.modelVersion,
+    );
     columns.model_id = model.id;
     columns.model_version = model.version;
   }
@@ -150,7 +196,8 @@ export async function editCourse(db: Conn, actor: CaseworkActor, id: string, inp
   return inTransaction(db, async (trx) => {
     const result = await updateCourse(trx, id, version, columns);
     if (result.outcome === 'missing') throw notFound('Course');
-    if (result.outcome === 'stale') throw staleVersion('course', version, toCourseDto(result.current), input);
+    if (result.outcome === 'stale')
+      throw staleVersion('course', version, toCourseDto(result.current), input);
     await recordAudit(trx, {
       actor: auditActor(actor),
       action: 'course.update',

@@ -21,14 +21,21 @@ import {
 import type { PatientRecord } from '../../data-access/patients-repo';
 import { notFound } from '../../lib/app-error';
 import { isInFuture, resolveTime, showTime } from '../doses/timing';
-import { assertMayWrite, auditActor, invalid, staleVersion, type CaseworkActor } from '../patients/common';
+import {
+  assertMayWrite,
+  auditActor,
+  invalid,
+  staleVersion,
+  type CaseworkActor,
+} from '../patients/common';
 import { requirePatient, toPatientDto } from '../patients/patients';
 import { checkCovariate } from './units';
 
 export function toCovariateDto(c: CovariateRecord, ageYears = 50): Covariate {
   let echo = '';
   if (c.kind === 'dialysis') echo = `dialysis: ${c.dialysisStatus}`;
-  else if (c.value !== null && c.unit) echo = checkCovariate(c.kind, c.value, c.unit, ageYears).echo;
+  else if (c.value !== null && c.unit)
+    echo = checkCovariate(c.kind, c.value, c.unit, ageYears).echo;
   return {
     id: c.id,
     version: c.version,
@@ -63,8 +70,16 @@ export function checkCovariateInput(
 ): CovariateCheckResult {
   const errors: Record<string, string[]> = {};
   const add = (f: string, m: string) => (errors[f] ??= []).push(m);
-  const time = resolveTime(patient.isTeaching, input.observedAt, input.observedHour, 'observedAt', 'observedHour', errors);
-  if (time && isInFuture(time, now)) add('observedAt', `the observation time ${showTime(time)} is in the future`);
+  const time = resolveTime(
+    patient.isTeaching,
+    input.observedAt,
+    input.observedHour,
+    'observedAt',
+    'observedHour',
+    errors,
+  );
+  if (time && isInFuture(time, now))
+    add('observedAt', `the observation time ${showTime(time)} is in the future`);
   const columns: CovariateColumns = {
     patient_id: patient.id,
     is_teaching: patient.isTeaching,
@@ -77,17 +92,26 @@ export function checkCovariateInput(
   let echo = '';
   if (input.kind === 'dialysis') {
     if (!input.dialysisStatus) add('dialysisStatus', 'required for a dialysis observation');
-    if (input.value !== undefined || input.unit !== undefined) add('value', 'a dialysis observation has a status, not a value');
+    if (input.value !== undefined || input.unit !== undefined)
+      add('value', 'a dialysis observation has a status, not a value');
     columns.dialysis_status = input.dialysisStatus ?? null;
     echo = `dialysis: ${input.dialysisStatus}`;
   } else {
-    if (input.dialysisStatus !== undefined) add('dialysisStatus', `only a dialysis observation has a status`);
+    if (input.dialysisStatus !== undefined)
+      add('dialysisStatus', `only a dialysis observation has a status`);
     if (input.value === undefined) add('value', 'required');
     if (input.unit === undefined) add('unit', 'required (a UCUM code)');
-    if (input.kind === 'weight' && !input.weightSource) add('weightSource', 'say whether the weight was measured, stated or estimated');
-    if (input.kind !== 'weight' && input.weightSource) add('weightSource', 'only a weight has a source');
+    if (input.kind === 'weight' && !input.weightSource)
+      add('weightSource', 'say whether the weight was measured, stated or estimated');
+    if (input.kind !== 'weight' && input.weightSource)
+      add('weightSource', 'only a weight has a source');
     if (input.value !== undefined && input.unit !== undefined) {
-      const check = checkCovariate(input.kind, input.value, input.unit, toPatientDto(patient, now).ageYears);
+      const check = checkCovariate(
+        input.kind,
+        input.value,
+        input.unit,
+        toPatientDto(patient, now).ageYears,
+      );
       for (const [f, ms] of Object.entries(check.errors)) for (const m of ms) add(f, m);
       columns.value = input.value;
       columns.unit = input.unit;
@@ -102,7 +126,10 @@ export function checkCovariateInput(
 
 function mapDbError(error: unknown): never {
   const kind = databaseErrorKind(error);
-  if (kind?.kind === 'unique') throw invalid({ observedAt: ['this kind of observation is already recorded at that time (duplicate)'] });
+  if (kind?.kind === 'unique')
+    throw invalid({
+      observedAt: ['this kind of observation is already recorded at that time (duplicate)'],
+    });
   throw error;
 }
 
@@ -143,7 +170,12 @@ export async function browseCovariates(
   const patient = await requirePatient(db, actor, patientId);
   const { items, total } = await listCovariates(db, patient.id, query);
   const age = toPatientDto(patient).ageYears;
-  return { items: items.map((c) => toCovariateDto(c, age)), page: query.page, pageSize: query.pageSize, total };
+  return {
+    items: items.map((c) => toCovariateDto(c, age)),
+    page: query.page,
+    pageSize: query.pageSize,
+    total,
+  };
 }
 
 async function requireCovariate(db: Conn, actor: CaseworkActor, id: string) {
@@ -174,8 +206,12 @@ export async function editCovariate(
     unit: changes.unit ?? before.unit ?? undefined,
     weightSource: changes.weightSource ?? before.weightSource ?? undefined,
     dialysisStatus: changes.dialysisStatus ?? before.dialysisStatus ?? undefined,
-    observedAt: patient.isTeaching ? changes.observedAt : (changes.observedAt ?? before.observedAt ?? undefined),
-    observedHour: patient.isTeaching ? (changes.observedHour ?? before.observedHour ?? undefined) : changes.observedHour,
+    observedAt: patient.isTeaching
+      ? changes.observedAt
+      : (changes.observedAt ?? before.observedAt ?? undefined),
+    observedHour: patient.isTeaching
+      ? (changes.observedHour ?? before.observedHour ?? undefined)
+      : changes.observedHour,
     note: changes.note ?? before.note ?? undefined,
   };
   const check = checkCovariateInput(patient, merged, now, before.source);
@@ -184,7 +220,8 @@ export async function editCovariate(
     return await inTransaction(db, async (trx) => {
       const result = await updateCovariate(trx, id, version, check.columns);
       if (result.outcome === 'missing') throw notFound('Covariate');
-      if (result.outcome === 'stale') throw staleVersion('covariate', version, toCovariateDto(result.current), input);
+      if (result.outcome === 'stale')
+        throw staleVersion('covariate', version, toCovariateDto(result.current), input);
       await recordAudit(trx, {
         actor: auditActor(actor),
         action: 'covariate.update',
@@ -200,13 +237,19 @@ export async function editCovariate(
   }
 }
 
-export async function removeCovariate(db: Conn, actor: CaseworkActor, id: string, version: number): Promise<void> {
+export async function removeCovariate(
+  db: Conn,
+  actor: CaseworkActor,
+  id: string,
+  version: number,
+): Promise<void> {
   const { patient } = await requireCovariate(db, actor, id);
   assertMayWrite(actor, patient.isTeaching);
   await inTransaction(db, async (trx) => {
     const result = await deleteCovariate(trx, id, version);
     if (result.outcome === 'missing') throw notFound('Covariate');
-    if (result.outcome === 'stale') throw staleVersion('covariate', version, toCovariateDto(result.current), { version });
+    if (result.outcome === 'stale')
+      throw staleVersion('covariate', version, toCovariateDto(result.current), { version });
     await recordAudit(trx, {
       actor: auditActor(actor),
       action: 'covariate.delete',

@@ -50,7 +50,10 @@ export function checkCovariate(
             : unit === 'kg' && v > 350 && asPounds <= 350
               ? ` If this was pounds, ${fmt(v)} lb = ${fmt(asPounds)} kg.`
               : '';
-        refuse('value', `weight ${fmt(canonical)} kg is outside the plausible range 0.3–350 kg.${hint}`);
+        refuse(
+          'value',
+          `weight ${fmt(canonical)} kg is outside the plausible range 0.3–350 kg.${hint}`,
+        );
       }
       break;
     }
@@ -62,7 +65,10 @@ export function checkCovariate(
       }
       canonical = v;
       if (v >= 0.25 && v <= 2.5) {
-        refuse('value', `${fmt(v)} cm looks like metres: ${fmt(v)} m = ${fmt(v * 100)} cm. Enter the height in cm.`);
+        refuse(
+          'value',
+          `${fmt(v)} cm looks like metres: ${fmt(v)} m = ${fmt(v * 100)} cm. Enter the height in cm.`,
+        );
       } else if (patientAgeYears >= 16 && v >= 48 && v <= 90) {
         refuse(
           'value',
@@ -83,7 +89,10 @@ export function checkCovariate(
             `serum creatinine ${fmt(v)} µmol/L is implausibly low and is almost certainly mg/dL: ${fmt(v)} mg/dL = ${fmt(v * CREATININE_UMOL_PER_MG_DL)} µmol/L. Check the unit.`,
           );
         } else if (v < 15 || v > 2000) {
-          refuse('value', `serum creatinine ${fmt(v)} µmol/L is outside the plausible range 15–2000 µmol/L`);
+          refuse(
+            'value',
+            `serum creatinine ${fmt(v)} µmol/L is outside the plausible range 15–2000 µmol/L`,
+          );
         }
       } else if (unit === 'mg/dL') {
         canonical = v * CREATININE_UMOL_PER_MG_DL;
@@ -93,7 +102,10 @@ export function checkCovariate(
             `serum creatinine ${fmt(v)} mg/dL is implausibly high and is almost certainly µmol/L: ${fmt(v)} µmol/L = ${fmt(v / CREATININE_UMOL_PER_MG_DL, 3)} mg/dL. Check the unit.`,
           );
         } else if (v < 0.15 || v > 25) {
-          refuse('value', `serum creatinine ${fmt(v)} mg/dL is outside the plausible range 0.15–25 mg/dL`);
+          refuse(
+            'value',
+            `serum creatinine ${fmt(v)} mg/dL is outside the plausible range 0.15–25 mg/dL`,
+          );
         }
       } else refuse('unit', `unknown creatinine unit "${unit}": use umol/L or mg/dL`);
       break;
@@ -103,13 +115,21 @@ export function checkCovariate(
       if (unit === 'g/L') {
         canonical = v;
         if (v >= 0.5 && v < 7) {
-          refuse('value', `albumin ${fmt(v)} g/L looks like g/dL: ${fmt(v)} g/dL = ${fmt(v * 10)} g/L. Check the unit.`);
-        } else if (v < 5 || v > 70) refuse('value', `albumin ${fmt(v)} g/L is outside the plausible range 5–70 g/L`);
+          refuse(
+            'value',
+            `albumin ${fmt(v)} g/L looks like g/dL: ${fmt(v)} g/dL = ${fmt(v * 10)} g/L. Check the unit.`,
+          );
+        } else if (v < 5 || v > 70)
+          refuse('value', `albumin ${fmt(v)} g/L is outside the plausible range 5–70 g/L`);
       } else if (unit === 'g/dL') {
         canonical = v * 10;
         if (v > 7 && v <= 70) {
-          refuse('value', `albumin ${fmt(v)} g/dL looks like g/L: ${fmt(v)} g/L = ${fmt(v / 10)} g/dL. Check the unit.`);
-        } else if (v < 0.5 || v > 7) refuse('value', `albumin ${fmt(v)} g/dL is outside the plausible range 0.5–7 g/dL`);
+          refuse(
+            'value',
+            `albumin ${fmt(v)} g/dL looks like g/L: ${fmt(v)} g/L = ${fmt(v / 10)} g/dL. Check the unit.`,
+          );
+        } else if (v < 0.5 || v > 7)
+          refuse('value', `albumin ${fmt(v)} g/dL is outside the plausible range 0.5–7 g/dL`);
       } else refuse('unit', `unknown albumin unit "${unit}": use g/L or g/dL`);
       break;
     }

@@ -1,4 +1,11 @@
-import type { Dose, DoseCreate, DoseListQuery, DoseUpdate, Page, RowSource } from '@ebbtide/contracts';
+import type {
+  Dose,
+  DoseCreate,
+  DoseListQuery,
+  DoseUpdate,
+  Page,
+  RowSource,
+} from '@ebbtide/contracts';
 import { recordAudit } from '../../data-access/audit';
 import { databaseErrorKind, inTransaction, type Conn } from '../../data-access/casework-db';
 import {
@@ -13,13 +20,21 @@ import {
 } from '../../data-access/doses-repo';
 import { notFound } from '../../lib/app-error';
 import { courseStart, requireCourse, type CourseContext } from '../courses/courses';
-import { assertMayWrite, auditActor, invalid, staleVersion, type CaseworkActor } from '../patients/common';
+import {
+  assertMayWrite,
+  auditActor,
+  invalid,
+  staleVersion,
+  type CaseworkActor,
+} from '../patients/common';
 import { checkDose, doseEcho, type CheckedDose, type DoseInput } from './checks';
 import type { ClinicalTime } from './timing';
 
 export function toDoseDto(d: DoseRecord): Dose {
   const endAt =
-    d.startAt && d.durationH !== null ? new Date(Date.parse(d.startAt) + d.durationH * 3_600_000).toISOString() : null;
+    d.startAt && d.durationH !== null
+      ? new Date(Date.parse(d.startAt) + d.durationH * 3_600_000).toISOString()
+      : null;
   const endHour = d.startHour !== null && d.durationH !== null ? d.startHour + d.durationH : null;
   return {
     id: d.id,
@@ -43,12 +58,20 @@ export function toDoseDto(d: DoseRecord): Dose {
   };
 }
 
-export const doseTime = (d: { startAt: string | null; startHour: number | null }): ClinicalTime => ({
+export const doseTime = (d: {
+  startAt: string | null;
+  startHour: number | null;
+}): ClinicalTime => ({
   at: d.startAt,
   hour: d.startHour,
 });
 
-export function doseColumns(ctx: CourseContext, d: CheckedDose, source: RowSource, userId: string | null): DoseColumns {
+export function doseColumns(
+  ctx: CourseContext,
+  d: CheckedDose,
+  source: RowSource,
+  userId: string | null,
+): DoseColumns {
   return {
     course_id: ctx.course.id,
     is_teaching: ctx.course.isTeaching,
@@ -67,7 +90,12 @@ export function doseColumns(ctx: CourseContext, d: CheckedDose, source: RowSourc
 }
 
 /** Checks a batch of doses against the course and each other (used by typed entry and imports). */
-export function checkDoseBatch(ctx: CourseContext, existing: DoseRecord[], inputs: DoseInput[], now: Date) {
+export function checkDoseBatch(
+  ctx: CourseContext,
+  existing: DoseRecord[],
+  inputs: DoseInput[],
+  now: Date,
+) {
   const starts: ClinicalTime[] = existing.map(doseTime);
   return inputs.map((input) => {
     const result = checkDose(input, {
@@ -85,7 +113,9 @@ export function checkDoseBatch(ctx: CourseContext, existing: DoseRecord[], input
 
 function mapDbError(error: unknown): never {
   if (databaseErrorKind(error)?.kind === 'unique') {
-    throw invalid({ startAt: ['a dose at this time is already recorded on this course (duplicate)'] });
+    throw invalid({
+      startAt: ['a dose at this time is already recorded on this course (duplicate)'],
+    });
   }
   throw error;
 }
@@ -103,7 +133,9 @@ export async function createDose(
   if (!check?.ok) throw invalid(check?.errors ?? {});
   try {
     return await inTransaction(db, async (trx) => {
-      const [created] = await insertDoses(trx, [doseColumns(ctx, check.dose, 'typed', actor.userId)]);
+      const [created] = await insertDoses(trx, [
+        doseColumns(ctx, check.dose, 'typed', actor.userId),
+      ]);
       const dose = created as DoseRecord;
       await recordAudit(trx, {
         actor: auditActor(actor),
@@ -155,7 +187,10 @@ export async function editDose(
   assertMayWrite(actor, ctx.course.isTeaching);
   const { version, ...changes } = input;
   const timingChanged = changes.startAt !== undefined || changes.startHour !== undefined;
-  const durationGiven = changes.infusionMinutes !== undefined || changes.endAt !== undefined || changes.endHour !== undefined;
+  const durationGiven =
+    changes.infusionMinutes !== undefined ||
+    changes.endAt !== undefined ||
+    changes.endHour !== undefined;
   const route = changes.route ?? before.route;
   const merged: DoseInput = {
     amount: changes.amount ?? before.amount,
@@ -178,10 +213,15 @@ export async function editDose(
   if (!check?.ok) throw invalid(check?.errors ?? {});
   try {
     return await inTransaction(db, async (trx) => {
-      const { created_by: _createdBy, source: _source, ...columns } = doseColumns(ctx, check.dose, before.source, actor.userId);
+      const {
+        created_by: _createdBy,
+        source: _source,
+        ...columns
+      } = doseColumns(ctx, check.dose, before.source, actor.userId);
       const result = await updateDose(trx, id, version, columns);
       if (result.outcome === 'missing') throw notFound('Dose');
-      if (result.outcome === 'stale') throw staleVersion('dose', version, toDoseDto(result.current), input);
+      if (result.outcome === 'stale')
+        throw staleVersion('dose', version, toDoseDto(result.current), input);
       await recordAudit(trx, {
         actor: auditActor(actor),
         action: 'dose.update',
@@ -198,7 +238,12 @@ export async function editDose(
   }
 }
 
-export async function removeDose(db: Conn, actor: CaseworkActor, id: string, version: number): Promise<void> {
+export async function removeDose(
+  db: Conn,
+  actor: CaseworkActor,
+  id: string,
+  version: number,
+): Promise<void> {
   const { dose, ctx } = await requireDose(db, actor, id);
   assertMayWrite(actor, ctx.course.isTeaching);
   await inTransaction(db, async (trx) => {

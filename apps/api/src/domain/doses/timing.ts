@@ -23,14 +23,19 @@ export function resolveTime(
 ): ClinicalTime | null {
   const add = (f: string, m: string) => (errors[f] ??= []).push(m);
   if (isTeaching) {
-    if (at !== undefined) add(atField, `teaching cases have no real dates: give ${hourField} (hours from the first dose)`);
+    if (at !== undefined)
+      add(
+        atField,
+        `teaching cases have no real dates: give ${hourField} (hours from the first dose)`,
+      );
     if (hour === undefined) {
       if (required) add(hourField, `required: hours from the first dose`);
       return null;
     }
     return { at: null, hour };
   }
-  if (hour !== undefined) add(hourField, `real patients use clock times: give ${atField} as an ISO date-time`);
+  if (hour !== undefined)
+    add(hourField, `real patients use clock times: give ${atField} as an ISO date-time`);
   if (at === undefined) {
     if (required) add(atField, 'required: an ISO date-time such as 2026-12-01T08:00:00Z');
     return null;

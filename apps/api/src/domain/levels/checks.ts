@@ -79,7 +79,8 @@ export interface CheckedLevel {
   echo: string;
 }
 
-export type LevelCheck = { ok: true; level: CheckedLevel } | { ok: false; errors: Record<string, string[]> };
+export type LevelCheck =
+  { ok: true; level: CheckedLevel } | { ok: false; errors: Record<string, string[]> };
 
 const sameInstant = (a: ClinicalTime, b: ClinicalTime) =>
   a.at !== null && b.at !== null ? Date.parse(a.at) === Date.parse(b.at) : a.hour === b.hour;
@@ -100,18 +101,32 @@ export function checkLevel(input: LevelInput, ctx: LevelContext): LevelCheck {
       input.unit !== 'umol/L' && input.value / UMOL_PER_MG[ctx.drug] <= maxMgL
         ? ` If the lab reported µmol/L, ${fmt(input.value)} µmol/L = ${fmt(input.value / UMOL_PER_MG[ctx.drug], 3)} mg/L: choose unit umol/L.`
         : '';
-    add('value', `${levelEcho(input.value, input.unit, ctx.drug)} is above the plausible range for ${ctx.drug} (up to ${maxMgL} mg/L).${hint}`);
+    add(
+      'value',
+      `${levelEcho(input.value, input.unit, ctx.drug)} is above the plausible range for ${ctx.drug} (up to ${maxMgL} mg/L).${hint}`,
+    );
   }
   const flags: CheckedLevel['flags'] = [];
   const lloq = input.assayLowerLimit ?? null;
   if (lloq !== null && input.value < lloq) flags.push('below-assay-limit');
   if (input.sampleKind === 'post-dialysis') flags.push('post-dialysis');
-  const collected = resolveTime(ctx.isTeaching, input.collectedAt, input.collectedHour, 'collectedAt', 'collectedHour', errors);
+  const collected = resolveTime(
+    ctx.isTeaching,
+    input.collectedAt,
+    input.collectedHour,
+    'collectedAt',
+    'collectedHour',
+    errors,
+  );
   if (collected) {
-    if (isInFuture(collected, ctx.now)) add(timeField, `the collection time ${showTime(collected)} is in the future`);
+    if (isInFuture(collected, ctx.now))
+      add(timeField, `the collection time ${showTime(collected)} is in the future`);
     const cs = ctx.courseStart;
     if (cs && toHours(collected, cs.at) < toHours(cs, cs.at)) {
-      add(timeField, `the collection time ${showTime(collected)} is before the course began (${showTime(cs)})`);
+      add(
+        timeField,
+        `the collection time ${showTime(collected)} is before the course began (${showTime(cs)})`,
+      );
     }
     const ref = ctx.infusions[0]?.start.at ?? collected.at;
     const t = toHours(collected, ref);
@@ -129,7 +144,10 @@ export function checkLevel(input: LevelInput, ctx: LevelContext): LevelCheck {
       }
     } else if (input.sampleKind === 'during-infusion') flags.push('during-infusion');
     if (ctx.existing.some((e) => e.fraction === input.fraction && sameInstant(e.time, collected))) {
-      add(timeField, `a ${input.fraction} level collected at ${showTime(collected)} is already recorded on this course (duplicate)`);
+      add(
+        timeField,
+        `a ${input.fraction} level collected at ${showTime(collected)} is already recorded on this course (duplicate)`,
+      );
     }
   }
   if (Object.keys(errors).length > 0 || !collected) return { ok: false, errors };

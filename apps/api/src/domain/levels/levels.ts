@@ -1,4 +1,11 @@
-import type { Level, LevelCreate, LevelListQuery, LevelUpdate, Page, RowSource } from '@ebbtide/contracts';
+import type {
+  Level,
+  LevelCreate,
+  LevelListQuery,
+  LevelUpdate,
+  Page,
+  RowSource,
+} from '@ebbtide/contracts';
 import { recordAudit } from '../../data-access/audit';
 import { databaseErrorKind, inTransaction, type Conn } from '../../data-access/casework-db';
 import type { DoseRecord } from '../../data-access/doses-repo';
@@ -16,8 +23,20 @@ import {
 import { notFound } from '../../lib/app-error';
 import { courseStart, requireCourse, type CourseContext } from '../courses/courses';
 import { doseTime } from '../doses/doses';
-import { assertMayWrite, auditActor, invalid, staleVersion, type CaseworkActor } from '../patients/common';
-import { checkLevel, levelEcho, type CheckedLevel, type InfusionSpan, type LevelInput } from './checks';
+import {
+  assertMayWrite,
+  auditActor,
+  invalid,
+  staleVersion,
+  type CaseworkActor,
+} from '../patients/common';
+import {
+  checkLevel,
+  levelEcho,
+  type CheckedLevel,
+  type InfusionSpan,
+  type LevelInput,
+} from './checks';
 
 export function toLevelDto(l: LevelRecord, drug: CourseContext['course']['drug']): Level {
   return {
@@ -42,13 +61,25 @@ export function toLevelDto(l: LevelRecord, drug: CourseContext['course']['drug']
   };
 }
 
-export function infusionsOf(doses: Array<Pick<DoseRecord, 'route' | 'durationH' | 'administrationStatus' | 'startAt' | 'startHour'>>): InfusionSpan[] {
+export function infusionsOf(
+  doses: Array<
+    Pick<DoseRecord, 'route' | 'durationH' | 'administrationStatus' | 'startAt' | 'startHour'>
+  >,
+): InfusionSpan[] {
   return doses
-    .filter((d) => d.route === 'iv-infusion' && d.durationH !== null && d.administrationStatus !== 'missed')
+    .filter(
+      (d) =>
+        d.route === 'iv-infusion' && d.durationH !== null && d.administrationStatus !== 'missed',
+    )
     .map((d) => ({ start: doseTime(d), durationH: d.durationH as number }));
 }
 
-export function levelColumns(ctx: CourseContext, l: CheckedLevel, source: RowSource, userId: string | null): LevelColumns {
+export function levelColumns(
+  ctx: CourseContext,
+  l: CheckedLevel,
+  source: RowSource,
+  userId: string | null,
+): LevelColumns {
   return {
     course_id: ctx.course.id,
     is_teaching: ctx.course.isTeaching,
@@ -76,7 +107,10 @@ export function checkLevelBatch(
   inputs: LevelInput[],
   now: Date,
 ) {
-  const seen = existing.map((l) => ({ time: { at: l.collectedAt, hour: l.collectedHour }, fraction: l.fraction }));
+  const seen = existing.map((l) => ({
+    time: { at: l.collectedAt, hour: l.collectedHour },
+    fraction: l.fraction,
+  }));
   return inputs.map((input) => {
     const result = checkLevel(input, {
       isTeaching: ctx.course.isTeaching,
@@ -93,7 +127,11 @@ export function checkLevelBatch(
 
 function mapDbError(error: unknown): never {
   if (databaseErrorKind(error)?.kind === 'unique') {
-    throw invalid({ collectedAt: ['a level collected at this time is already recorded on this course (duplicate)'] });
+    throw invalid({
+      collectedAt: [
+        'a level collected at this time is already recorded on this course (duplicate)',
+      ],
+    });
   }
   throw error;
 }
@@ -112,7 +150,9 @@ export async function createLevel(
   if (!check?.ok) throw invalid(check?.errors ?? {});
   try {
     return await inTransaction(db, async (trx) => {
-      const [created] = await insertLevels(trx, [levelColumns(ctx, check.level, 'typed', actor.userId)]);
+      const [created] = await insertLevels(trx, [
+        levelColumns(ctx, check.level, 'typed', actor.userId),
+      ]);
       const level = created as LevelRecord;
       await recordAudit(trx, {
         actor: auditActor(actor),
@@ -137,7 +177,12 @@ export async function browseLevels(
 ): Promise<Page<Level>> {
   const ctx = await requireCourse(db, actor, courseId);
   const { items, total } = await listLevels(db, courseId, query);
-  return { items: items.map((l) => toLevelDto(l, ctx.course.drug)), page: query.page, pageSize: query.pageSize, total };
+  return {
+    items: items.map((l) => toLevelDto(l, ctx.course.drug)),
+    page: query.page,
+    pageSize: query.pageSize,
+    total,
+  };
 }
 
 async function requireLevel(db: Conn, actor: CaseworkActor, id: string) {
@@ -172,7 +217,8 @@ export async function editLevel(
     collectedHour: timingChanged ? changes.collectedHour : (before.collectedHour ?? undefined),
     sampleKind: changes.sampleKind ?? before.sampleKind,
     fraction: changes.fraction ?? before.fraction,
-    assayLowerLimit: changes.assayLowerLimit !== undefined ? changes.assayLowerLimit : before.assayLowerLimit,
+    assayLowerLimit:
+      changes.assayLowerLimit !== undefined ? changes.assayLowerLimit : before.assayLowerLimit,
     loincCode: changes.loincCode !== undefined ? changes.loincCode : before.loincCode,
     note: changes.note ?? before.note ?? undefined,
   };
@@ -182,10 +228,15 @@ export async function editLevel(
   if (!check?.ok) throw invalid(check?.errors ?? {});
   try {
     return await inTransaction(db, async (trx) => {
-      const { created_by: _c, source: _s, ...columns } = levelColumns(ctx, check.level, before.source, actor.userId);
+      const {
+        created_by: _c,
+        source: _s,
+        ...columns
+      } = levelColumns(ctx, check.level, before.source, actor.userId);
       const result = await updateLevel(trx, id, version, columns);
       if (result.outcome === 'missing') throw notFound('Level');
-      if (result.outcome === 'stale') throw staleVersion('level', version, toLevelDto(result.current, ctx.course.drug), input);
+      if (result.outcome === 'stale')
+        throw staleVersion('level', version, toLevelDto(result.current, ctx.course.drug), input);
       await recordAudit(trx, {
         actor: auditActor(actor),
         action: 'level.update',
@@ -202,12 +253,18 @@ export async function editLevel(
   }
 }
 
-export async function removeLevel(db: Conn, actor: CaseworkActor, id: string, version: number): Promise<void> {
+export async function removeLevel(
+  db: Conn,
+  actor: CaseworkActor,
+  id: string,
+  version: number,
+): Promise<void> {
   const { level, ctx } = await requireLevel(db, actor, id);
   assertMayWrite(actor, ctx.course.isTeaching);
   await inTransaction(db, async (trx) => {
     const deleted = await deleteLevel(trx, id, version);
-    if (!deleted) throw staleVersion('level', version, toLevelDto(level, ctx.course.drug), { version });
+    if (!deleted)
+      throw staleVersion('level', version, toLevelDto(level, ctx.course.drug), { version });
     await recordAudit(trx, {
       actor: auditActor(actor),
       action: 'level.delete',

@@ -1,4 +1,10 @@
-import type { Patient, PatientCreate, PatientListQuery, PatientUpdate, Page } from '@ebbtide/contracts';
+import type {
+  Patient,
+  PatientCreate,
+  PatientListQuery,
+  PatientUpdate,
+  Page,
+} from '@ebbtide/contracts';
 import { recordAudit } from '../../data-access/audit';
 import { databaseErrorKind, inTransaction, type Conn } from '../../data-access/casework-db';
 import {
@@ -46,7 +52,8 @@ function checkBirthDate(birthDate: string | undefined, now: Date): void {
   if (Date.parse(`${birthDate}T00:00:00Z`) > now.getTime()) {
     throw invalid({ birthDate: ['the date of birth is in the future'] });
   }
-  if (ageOn(birthDate, now) > 120) throw invalid({ birthDate: ['an age over 120 years is implausible'] });
+  if (ageOn(birthDate, now) > 120)
+    throw invalid({ birthDate: ['an age over 120 years is implausible'] });
 }
 
 function mapUniqueError(error: unknown): never {
@@ -108,7 +115,11 @@ export async function getPatient(db: Conn, actor: CaseworkActor, id: string): Pr
 }
 
 /** The patient record itself, for other use cases (404 when the actor may not see it). */
-export async function requirePatient(db: Conn, actor: CaseworkActor, id: string): Promise<PatientRecord> {
+export async function requirePatient(
+  db: Conn,
+  actor: CaseworkActor,
+  id: string,
+): Promise<PatientRecord> {
   const p = await findPatient(db, actor, id);
   if (!p) throw notFound('Patient');
   return p;
@@ -121,7 +132,12 @@ export async function browsePatients(
 ): Promise<Page<Patient>> {
   const { items, total } = await listPatients(db, actor, query);
   const now = new Date();
-  return { items: items.map((p) => toPatientDto(p, now)), page: query.page, pageSize: query.pageSize, total };
+  return {
+    items: items.map((p) => toPatientDto(p, now)),
+    page: query.page,
+    pageSize: query.pageSize,
+    total,
+  };
 }
 
 export async function editPatient(
@@ -138,11 +154,16 @@ export async function editPatient(
   if (before.isTeaching) {
     const wrong = identityFields.filter((f) => changes[f] !== undefined);
     if (wrong.length) {
-      throw invalid(Object.fromEntries(wrong.map((f) => [f, ['teaching cases carry no identifiers']])));
+      throw invalid(
+        Object.fromEntries(wrong.map((f) => [f, ['teaching cases carry no identifiers']])),
+      );
     }
   } else {
     const wrong = (['teachingLabel', 'ageYears'] as const).filter((f) => changes[f] !== undefined);
-    if (wrong.length) throw invalid(Object.fromEntries(wrong.map((f) => [f, ['only teaching cases have this field']])));
+    if (wrong.length)
+      throw invalid(
+        Object.fromEntries(wrong.map((f) => [f, ['only teaching cases have this field']])),
+      );
     checkBirthDate(changes.birthDate, now);
   }
   const columns: PatientColumns = {};
@@ -158,7 +179,8 @@ export async function editPatient(
     return await inTransaction(db, async (trx) => {
       const result = await updatePatient(trx, id, version, columns);
       if (result.outcome === 'missing') throw notFound('Patient');
-      if (result.outcome === 'stale') throw staleVersion('patient', version, toPatientDto(result.current), input);
+      if (result.outcome === 'stale')
+        throw staleVersion('patient', version, toPatientDto(result.current), input);
       await recordAudit(trx, {
         actor: auditActor(actor),
         action: 'patient.update',

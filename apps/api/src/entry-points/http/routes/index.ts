@@ -1,8 +1,11 @@
 import type { Router } from 'express';
 import type { AppDeps } from '../../../app';
 import { providerEventRoutes } from './auth-provider-events';
+import { courseRoutes } from './courses';
+import { drugModelRoutes } from './drug-models';
 import { healthRoutes } from './health';
 import { meRoutes } from './me';
+import { patientRoutes } from './patients';
 import { userRoutes } from './users';
 
 /**
@@ -13,5 +16,8 @@ export function registerRoutes(api: Router, deps: AppDeps): void {
   api.use(healthRoutes(deps.db));
   api.use(meRoutes());
   api.use(userRoutes(deps.db));
+  api.use(patientRoutes(deps.db));
+  api.use(courseRoutes(deps.db));
+  api.use(drugModelRoutes(deps.db));
   api.use(providerEventRoutes({ db: deps.db, secret: deps.config.idpEventSecret }));
 }
