@@ -184,3 +184,21 @@ export {
   type LibraryPrior,
   type LibraryWarning,
 } from './library/individual';
+export { generateRegimen, type RegimenSpec } from './dosing/regimen';
+export { validateDoses } from './dosing/validate-doses';
+export {
+  halfLives,
+  accumulationFactor,
+  steadyStateProgress,
+  dosingIntervalMetrics,
+  timeAboveThreshold,
+  steadyStateMetrics,
+  auc24,
+  METRICS_RESOLUTION,
+  type HalfLives,
+  type IntervalMetrics,
+  type ProfileInput,
+  type SteadyStateMetrics,
+  type SteadyStateProgress,
+  type ThresholdTimes,
+} from './metrics/metrics';

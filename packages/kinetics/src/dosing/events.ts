@@ -15,7 +15,7 @@ export interface EventSchedule {
 }
 
 /** Relative tolerance under which two event/output times are treated as the same instant. */
-export const TIME_SNAP = 1e-9;
+export const TIME_SNAP = 1e-11;
 
 /** Whether two times are the same instant within `TIME_SNAP` (relative to max(1, |t|)). */
 export function sameTime(a: number, b: number): boolean {
