@@ -366,8 +366,8 @@ export function fitMap(input: MapFitInput): MapFitResult {
   const p = paramsOf(eta);
   const fInd = predict(p);
   const fPop = predict(paramsOf(omegas.map(() => 0)));
-  const { hessian, evaluations: hEval } = numericalHessian(objective, eta, o.hessianStep);
-  void hEval;
+  // The Hessian's evaluations go through `objective`, so `evaluations` counts them too.
+  const { hessian } = numericalHessian(objective, eta, o.hessianStep);
   const hInv = inverseSpd(hessian);
   let covarianceEta: number[][] | undefined;
   let standardErrors: Record<string, number> | undefined;
