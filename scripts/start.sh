@@ -32,6 +32,23 @@ pnpm --filter @ebbtide/web exec vite build --logLevel warn
 
 export NODE_ENV="${NODE_ENV:-development}"
 export API_HOST=127.0.0.1 API_PORT WEB_DIST="$EBBTIDE_ROOT/apps/web/dist"
+
+# The development mail catcher on loopback receives every e-mail the API sends (unless SMTP_HOST
+# already points at a real mail server).
+MAIL_PAGE="(not started: SMTP_HOST is set)"
+if [ -z "${SMTP_HOST:-}" ]; then
+  MAILCATCHER_SMTP_PORT="${MAILCATCHER_SMTP_PORT:-4625}" MAILCATCHER_HTTP_PORT="${MAILCATCHER_HTTP_PORT:-4626}"
+  MAILCATCHER_HOST=127.0.0.1 MAILCATCHER_SMTP_PORT="$MAILCATCHER_SMTP_PORT" MAILCATCHER_HTTP_PORT="$MAILCATCHER_HTTP_PORT" \
+    "$EBBTIDE_ROOT/node_modules/.bin/tsx" apps/mailcatcher/src/main.ts &
+  children+=($!)
+  for _ in $(seq 1 50); do
+    curl -fsS "http://127.0.0.1:$MAILCATCHER_HTTP_PORT/health" >/dev/null 2>&1 && break
+    sleep 0.2
+  done
+  export SMTP_HOST=127.0.0.1 SMTP_PORT="$MAILCATCHER_SMTP_PORT"
+  MAIL_PAGE="http://127.0.0.1:$MAILCATCHER_HTTP_PORT/ (development mail catcher)"
+fi
+
 "$EBBTIDE_ROOT/node_modules/.bin/tsx" apps/api/src/main.ts &
 children+=($!)
 
@@ -44,6 +61,7 @@ cat <<MSG
 
   Ebbtide is running.
     Open:  http://127.0.0.1:$API_PORT/
+    Mail:  $MAIL_PAGE
     Stop:  Ctrl-C (stops the API and PostgreSQL)
 
 MSG

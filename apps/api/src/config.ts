@@ -9,6 +9,20 @@ export const DEV_DEFAULTS = {
   idpEventSecret: 'dev-only-idp-event-secret-not-for-production',
 } as const;
 
+/** "true"/"false"/"1"/"0" from the environment, or a boolean from an override. */
+const envBoolean = z
+  .union([z.boolean(), z.enum(['true', 'false', '1', '0'])])
+  .transform((v) => v === true || v === 'true' || v === '1');
+
+function isTimeZone(zone: string): boolean {
+  try {
+    new Intl.DateTimeFormat('en', { timeZone: zone });
+    return true;
+  } catch {
+    return false;
+  }
+}
+
 /**
  * The API's whole configuration, read once from the environment and validated.
  * Nothing else in the API reads process.env.
@@ -60,6 +74,30 @@ const configSchema = z.object({
     .default(480),
   /** IDP_EVENT_SECRET: shared secret with which the local provider signs failed sign-in events it reports. */
   idpEventSecret: z.string().min(16).default(DEV_DEFAULTS.idpEventSecret),
+  /** SMTP_HOST: the mail server; in development and tests the local mail catcher. */
+  smtpHost: z.string().min(1).default('127.0.0.1'),
+  /** SMTP_PORT: 4625 is the local mail catcher's development port. */
+  smtpPort: z.coerce.number().int().min(1).max(65535).default(4625),
+  /** SMTP_SECURE: true = TLS from the first byte (port 465); false = STARTTLS when the server offers it. */
+  smtpSecure: envBoolean.default(false),
+  /** SMTP_USER, SMTP_PASSWORD: optional SMTP authentication. */
+  smtpUser: z.string().optional(),
+  smtpPassword: z.string().optional(),
+  /** MAIL_FROM: sender of every message, e.g. "Ebbtide <ebbtide@hospital.example>". */
+  mailFrom: z.string().min(3).default('Ebbtide <ebbtide@kestrelbay.example>'),
+  /**
+   * MAIL_PATIENT_DETAIL: how much about the patient an e-mail may show (hospital policy).
+   * minimal = a link only; ward = a link and the ward (default); initials = also the initials.
+   * Never a name, MRN, date of birth, dose or level.
+   */
+  mailPatientDetail: z.enum(['minimal', 'ward', 'initials']).default('ward'),
+  /** RUN_WORKERS: run the background workers (mail delivery) inside this API process. */
+  runWorkers: envBoolean.default(true),
+  /** HOSPITAL_TIME_ZONE: IANA zone in which mail and reports show clock times. */
+  hospitalTimeZone: z
+    .string()
+    .default('Australia/Brisbane')
+    .refine(isTimeZone, 'must be an IANA time zone, e.g. Europe/London'),
 });
 
 export type AppConfig = z.infer<typeof configSchema>;
@@ -83,6 +121,15 @@ const envNames: Record<keyof AppConfig, string> = {
   sessionCookieName: 'SESSION_COOKIE_NAME',
   sessionMaxAgeMinutes: 'SESSION_MAX_AGE_MINUTES',
   idpEventSecret: 'IDP_EVENT_SECRET',
+  smtpHost: 'SMTP_HOST',
+  smtpPort: 'SMTP_PORT',
+  smtpSecure: 'SMTP_SECURE',
+  smtpUser: 'SMTP_USER',
+  smtpPassword: 'SMTP_PASSWORD',
+  mailFrom: 'MAIL_FROM',
+  mailPatientDetail: 'MAIL_PATIENT_DETAIL',
+  runWorkers: 'RUN_WORKERS',
+  hospitalTimeZone: 'HOSPITAL_TIME_ZONE',
 };
 
 /** In production every secret must be set explicitly and the provider must not be the local one. */

@@ -3,7 +3,10 @@ import type { AddressInfo } from 'node:net';
 import { createApp } from './app';
 import { loadConfig, type AppConfigInput } from './config';
 import { createDb } from './data-access/db';
+import { createJobQueue } from './jobs/queue';
 import { createLogger } from './lib/logger';
+import { ensureMailQueue } from './mail/mail-worker';
+import { startWorkers, type RunningWorkers } from './worker';
 
 export interface RunningServer {
   url: string;
@@ -26,6 +29,14 @@ export async function startServer(overrides: Partial<AppConfigInput> = {}): Prom
   const config = loadConfig(process.env, { ...overrides, port });
   const logger = createLogger(config);
   const db = createDb(config.databaseUrl);
+  // The job queue is always started (plans enqueue mail); the workers only when RUN_WORKERS.
+  const boss = createJobQueue(config);
+  boss.on('error', (err) => logger.error({ err }, 'job queue error'));
+  await boss.start();
+  await ensureMailQueue(boss);
+  const workers: RunningWorkers | undefined = config.runWorkers
+    ? await startWorkers({ config, db, logger, boss })
+    : undefined;
   const app = createApp({ config, db, logger });
   server.on('request', app);
   const url = `http://${config.host}:${port}`;
@@ -36,6 +47,8 @@ export async function startServer(overrides: Partial<AppConfigInput> = {}): Prom
     stop: async () => {
       server.closeAllConnections();
       await new Promise<void>((resolve) => server.close(() => resolve()));
+      await workers?.stop();
+      await boss.stop({ graceful: true, wait: true });
       await db.destroy();
     },
   };
