@@ -1,69 +1,31 @@
 import { randomBytes } from 'node:crypto';
+import {
+  amikacinExtendedInterval,
+  drugModelLibrary,
+  gentamicinExtendedInterval,
+  phenytoinGrasela1983,
+  tobramycinExtendedInterval,
+  vancomycinGoti2018,
+} from '@ebbtide/kinetics';
 import type { Db } from '../src/data-access/db';
+import { syncEngineLibrary } from '../src/domain/drug-models/drug-models';
 import type { SignedInClient } from './support/sign-in';
 
 /**
  * Helpers for the casework API tests. Every test creates its own rows through the API;
  * only the drug models (shared reference data, immutable once stored) are inserted here.
  */
+/** The engine's built-in library models, synced into drug_models. */
 export const TEST_MODELS = {
-  vancomycin: 'test-vancomycin-1cmt',
-  gentamicin: 'test-gentamicin-1cmt',
-  tobramycin: 'test-tobramycin-1cmt',
-  amikacin: 'test-amikacin-1cmt',
-  phenytoin: 'test-phenytoin-mm',
+  vancomycin: vancomycinGoti2018.id,
+  gentamicin: gentamicinExtendedInterval.id,
+  tobramycin: tobramycinExtendedInterval.id,
+  amikacin: amikacinExtendedInterval.id,
+  phenytoin: phenytoinGrasela1983.id,
 } as const;
-
-const doseRanges = {
-  vancomycin: [250, 4500],
-  gentamicin: [10, 1200],
-  tobramycin: [10, 1200],
-  amikacin: [50, 3000],
-  phenytoin: [25, 2000],
-} as const;
-
-/** A one-compartment definition in the shape of an engine library entry. */
-function definition(drug: keyof typeof TEST_MODELS) {
-  const mm = drug === 'phenytoin';
-  return {
-    id: TEST_MODELS[drug],
-    drug,
-    title: `${drug} test model`,
-    structure: { compartments: 1, elimination: mm ? 'michaelis-menten' : 'linear' },
-    routes: ['infusion', 'bolus'],
-    parameters: mm
-      ? {
-          Vmax: { typical: 17.3, unit: 'mg/h' },
-          Km: { typical: 5.7, unit: 'mg/L' },
-          V1: { typical: 49, unit: 'L' },
-        }
-      : {
-          CL: { typical: drug === 'vancomycin' ? 4.5 : 5, unit: 'L/h' },
-          V1: { typical: drug === 'vancomycin' ? 50 : 18, unit: 'L' },
-        },
-    variability: {},
-    residualError: { model: 'proportional', proportional: 0.15 },
-    covariates: [],
-    references: ['test fixture, not a published model'],
-  };
-}
 
 export async function ensureTestModels(db: Db): Promise<void> {
-  for (const drug of Object.keys(TEST_MODELS) as Array<keyof typeof TEST_MODELS>) {
-    await db('drug_models')
-      .insert({
-        id: TEST_MODELS[drug],
-        version: 1,
-        drug,
-        name: `${drug} test model`,
-        source: 'test fixture, not a published model',
-        definition: JSON.stringify(definition(drug)),
-        plausible_dose_min_mg: doseRanges[drug][0],
-        plausible_dose_max_mg: doseRanges[drug][1],
-      })
-      .onConflict(['id', 'version'])
-      .ignore();
-  }
+  await syncEngineLibrary(db, drugModelLibrary);
 }
 
 export const uniqueMrn = () => `KB-${randomBytes(5).toString('hex').toUpperCase()}`;

@@ -6,6 +6,7 @@ import type {
   Page,
 } from '@ebbtide/contracts';
 import { drugSchema } from '@ebbtide/contracts';
+import { validateDrugModel, type DrugModelEntry } from '@ebbtide/kinetics';
 import { recordAudit } from '../../data-access/audit';
 import { inTransaction, type Conn } from '../../data-access/casework-db';
 import {
@@ -32,36 +33,23 @@ export const DEFAULT_PLAUSIBLE_SINGLE_DOSE_MG: Record<Drug, { min: number; max: 
 };
 
 /**
- * Validates a model definition the way the engine reads it: it must look like a library entry
- * and each covariate expression must compile.
+ * Validates a model definition with the engine's own validator (`validateDrugModel`), plus the
+ * consistency of the definition with the library row that stores it.
  */
-export function validateDefinition(definition: Record<string, unknown>): string[] {
-  const problems: string[] = [];
-  const d = definition as {
-    structure?: { compartments?: unknown; elimination?: unknown };
-    parameters?: Record<string, { typical?: unknown; expression?: unknown }>;
-    residualError?: { model?: unknown };
-  };
-  if (!d.structure || ![1, 2].includes(d.structure.compartments as number)) {
-    problems.push('structure.compartments must be 1 or 2');
+export function validateDefinition(
+  input: Pick<DrugModelCreate, 'id' | 'drug' | 'definition'>,
+): string[] {
+  const v = validateDrugModel(input.definition as unknown as DrugModelEntry);
+  const problems = v.problems.map((p) => `${p.field}: ${p.message}`);
+  if (input.definition.id !== undefined && input.definition.id !== input.id) {
+    problems.push(
+      `id: the definition's id (${String(input.definition.id)}) differs from ${input.id}`,
+    );
   }
-  if (!d.structure || !['linear', 'michaelis-menten'].includes(d.structure.elimination as string)) {
-    problems.push('structure.elimination must be "linear" or "michaelis-menten"');
-  }
-  if (!d.parameters || typeof d.parameters !== 'object' || Object.keys(d.parameters).length === 0) {
-    problems.push('parameters must name at least one parameter with a typical value');
-  } else {
-    for (const [name, spec] of Object.entries(d.parameters)) {
-      if (typeof spec?.typical !== 'number' || !(spec.typical > 0)) {
-        problems.push(`parameters.${name}.typical must be a positive number`);
-      }
-    }
-  }
-  if (
-    !d.residualError ||
-    !['additive', 'proportional', 'combined'].includes(d.residualError.model as string)
-  ) {
-    problems.push('residualError.model must be additive, proportional or combined');
+  if (input.definition.drug !== input.drug) {
+    problems.push(
+      `drug: the definition is for ${String(input.definition.drug)}, not ${input.drug}`,
+    );
   }
   return problems;
 }
@@ -88,7 +76,7 @@ export async function addDrugModel(
 ): Promise<DrugModel> {
   if (actor.role !== 'admin')
     throw new AppError('forbidden', 'Only an admin manages the drug-model library', 403);
-  const problems = validateDefinition(input.definition);
+  const problems = validateDefinition(input);
   if (problems.length) throw invalid({ definition: problems }, 'The model definition is not valid');
   return inTransaction(db, async (trx) => {
     const existing = await findDrugModel(trx, input.id);

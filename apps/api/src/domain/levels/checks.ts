@@ -32,9 +32,9 @@ export function toMgL(value: number, unit: LevelUnit, drug: Drug): number {
 }
 
 export function levelEcho(value: number, unit: LevelUnit, drug: Drug): string {
-  if (unit === 'umol/L') return `${fmt(value)} µmol/L (${fmt(value / UMOL_PER_MG[drug], 3)} mg/L)`;
+  if (unit === 'umol/L') return `${fmt(value)} µmol/L (${fmt(value / UMOL_PER_MG[drug], 4)} mg/L)`;
   const label = unit === 'ug/mL' ? 'µg/mL' : 'mg/L';
-  return `${fmt(value)} ${label} (${fmt(value * UMOL_PER_MG[drug], 3)} µmol/L)`;
+  return `${fmt(value)} ${label} (${fmt(value * UMOL_PER_MG[drug], 4)} µmol/L)`;
 }
 
 export interface LevelInput {
