@@ -2,9 +2,44 @@
 export const paths = {
   caseload: { path: '/', getHref: () => '/' },
   patients: { path: '/patients', getHref: () => '/patients' },
+  patient: {
+    path: '/patients/:patientId',
+    getHref: (patientId: string) => `/patients/${patientId}`,
+  },
+  course: {
+    path: '/courses/:courseId',
+    getHref: (courseId: string) => `/courses/${courseId}`,
+  },
+  courseFit: {
+    path: '/courses/:courseId/fit',
+    getHref: (courseId: string) => `/courses/${courseId}/fit`,
+  },
+  courseRegimens: {
+    path: '/courses/:courseId/regimens',
+    getHref: (courseId: string) => `/courses/${courseId}/regimens`,
+  },
+  courseImport: {
+    path: '/courses/:courseId/import',
+    getHref: (courseId: string) => `/courses/${courseId}/import`,
+  },
   teaching: { path: '/teaching', getHref: () => '/teaching' },
   reviews: { path: '/reviews', getHref: () => '/reviews' },
   drugModels: { path: '/drug-models', getHref: () => '/drug-models' },
   audit: { path: '/audit', getHref: () => '/audit' },
+  users: { path: '/users', getHref: () => '/users' },
   status: { path: '/status', getHref: () => '/status' },
+  signIn: {
+    path: '/sign-in',
+    getHref: (returnTo?: string) =>
+      returnTo && returnTo !== '/'
+        ? `/sign-in?returnTo=${encodeURIComponent(returnTo)}`
+        : '/sign-in',
+  },
+  signedOut: { path: '/signed-out', getHref: () => '/signed-out' },
+  /** Served by the API: starts the OpenID Connect sign-in, then returns to `returnTo`. */
+  authLogin: {
+    getHref: (returnTo = '/') => `/auth/login?returnTo=${encodeURIComponent(returnTo)}`,
+  },
+  /** Served by the API: POST ends the session here and at the identity provider. */
+  authLogout: { getHref: () => '/auth/logout' },
 } as const;

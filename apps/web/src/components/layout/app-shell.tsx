@@ -1,19 +1,27 @@
 import { NavLink, Outlet } from 'react-router-dom';
 import { paths } from '../../config/paths';
+import { useMe } from '../../features/auth/api/get-me';
+import { UserMenu } from '../../features/auth/components/user-menu';
+import { mayOpen, type Screen } from '../../features/auth/permissions';
 import { HealthBadge } from '../../features/health/components/health-badge';
 import { ClinicalCaution } from './clinical-caution';
 
-const navigation = [
-  { to: paths.caseload.getHref(), label: 'Caseload', end: true },
-  { to: paths.patients.getHref(), label: 'Patients' },
-  { to: paths.reviews.getHref(), label: 'Review queue' },
-  { to: paths.teaching.getHref(), label: 'Teaching cases' },
-  { to: paths.drugModels.getHref(), label: 'Drug models' },
-  { to: paths.audit.getHref(), label: 'Audit trail' },
+/** Main navigation; `screen` names the access rule (features/auth/permissions.ts), none = public. */
+const navigation: Array<{ to: string; label: string; end?: boolean; screen?: Screen }> = [
+  { to: paths.caseload.getHref(), label: 'Caseload', end: true, screen: 'caseload' },
+  { to: paths.patients.getHref(), label: 'Patients', screen: 'patients' },
+  { to: paths.reviews.getHref(), label: 'Review queue', screen: 'reviews' },
+  { to: paths.teaching.getHref(), label: 'Teaching cases', screen: 'teaching' },
+  { to: paths.drugModels.getHref(), label: 'Drug models', screen: 'drugModels' },
+  { to: paths.users.getHref(), label: 'Users', screen: 'users' },
+  { to: paths.audit.getHref(), label: 'Audit trail', screen: 'audit' },
   { to: paths.status.getHref(), label: 'System status' },
 ];
 
 export function AppShell() {
+  const me = useMe();
+  const role = me.data?.role;
+  const items = navigation.filter((item) => !item.screen || mayOpen(role, item.screen));
   return (
     <div className="flex min-h-screen flex-col font-sans">
       <header className="bg-tide-800 text-white">
@@ -22,10 +30,13 @@ export function AppShell() {
             <span className="text-lg font-bold tracking-tight">Ebbtide</span>
             <span className="text-sm text-tide-100">Kestrel Bay Regional Hospital · Pharmacy</span>
           </div>
-          <HealthBadge />
+          <div className="flex items-center gap-4">
+            <HealthBadge />
+            <UserMenu />
+          </div>
         </div>
         <nav aria-label="Main" className="flex flex-wrap gap-1 px-2 pb-2">
-          {navigation.map((item) => (
+          {items.map((item) => (
             <NavLink
               key={item.to}
               to={item.to}

@@ -1,0 +1,20 @@
+import type { Page } from 'playwright-core';
+import { DEMO_PASSWORD } from '../../apps/idp/src/demo';
+
+export const DEMO_LOGINS = {
+  pharmacist: 'maren.okafor',
+  reviewer: 'tomasz.lindqvist',
+  trainee: 'priya.ferreira-hale',
+  admin: 'dov.achterberg',
+} as const;
+
+/** Fills in the local identity provider's sign-in form on the current page. */
+export async function fillProviderSignIn(
+  page: Page,
+  login: string,
+  password: string = DEMO_PASSWORD,
+): Promise<void> {
+  await page.getByLabel('User name or e-mail').fill(login);
+  await page.getByLabel('Password').fill(password);
+  await page.getByRole('button', { name: 'Sign in' }).click();
+}
