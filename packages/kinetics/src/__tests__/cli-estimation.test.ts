@@ -103,3 +103,32 @@ describe('cli/two-level', () => {
     );
   });
 });
+
+describe('cli dispatcher (tsx src/cli/main.ts)', () => {
+  it('`kinetics fit` and `kinetics two-level` run end to end through the registry', async () => {
+    const { spawnSync } = await import('node:child_process');
+    const run = (cmd: string, stdin: string) =>
+      spawnSync('pnpm', ['exec', 'tsx', 'src/cli/main.ts', cmd], {
+        input: stdin,
+        encoding: 'utf8',
+        cwd: new URL('../..', import.meta.url).pathname,
+      });
+    const fit = run('fit', JSON.stringify(fitInput));
+    expect(fit.status).toBe(0);
+    expect(Object.keys(JSON.parse(fit.stdout) as object).sort()).toEqual([
+      'estimates',
+      'objective',
+      'predictions',
+      'standardErrors',
+    ]);
+    const bad = run(
+      'two-level',
+      JSON.stringify({
+        doses: [{ time: 0, amount: 200, duration: 0.5 }],
+        levels: [{ time: 1, value: 'x' }],
+      }),
+    );
+    expect(bad.status).not.toBe(0);
+    expect(bad.stderr).toMatch(/levels\[0\]\.value/);
+  }, 60_000);
+});

@@ -11,24 +11,9 @@ import { EngineError } from '../errors';
 import { fitMap } from '../estimation/map-fit';
 import type { Dose, ModelStructure } from '../types';
 import { readFileSync } from 'node:fs';
+import type { CliIo } from './io';
 
-/** Where a command reads and writes (injectable for tests). */
-export interface CliIo {
-  readonly readStdin: () => Promise<string>;
-  readonly stdout: (s: string) => void;
-  readonly stderr: (s: string) => void;
-}
-
-/** Process stdio. */
-export const processIo: CliIo = {
-  readStdin: async () => {
-    const chunks: Buffer[] = [];
-    for await (const c of process.stdin) chunks.push(c as Buffer);
-    return Buffer.concat(chunks).toString('utf8');
-  },
-  stdout: (s) => void process.stdout.write(s),
-  stderr: (s) => void process.stderr.write(s),
-};
+export type { CliIo };
 
 /** JSON from the first non-flag argument (a file path) or stdin. @throws EngineError `invalid-input` on bad JSON. */
 export async function readJsonInput(
