@@ -3,6 +3,7 @@ import * as m20261202000100 from './20261202000100_sessions_and_audit';
 import * as m20261202010000 from './20261202010000_users';
 import * as m20261202020001 from './20261202020001_casework';
 import * as m20261202030000 from './20261202030000_mail_outbox';
+import * as m20261202040000 from './20261202040000_plans_and_teaching';
 
 /**
  * Every migration, in order. Knex's directory loader cannot import .ts files under vitest,
@@ -13,6 +14,7 @@ const migrations: Record<string, Knex.Migration> = {
   '20261202010000_users': m20261202010000,
   '20261202020001_casework': m20261202020001,
   '20261202030000_mail_outbox': m20261202030000,
+  '20261202040000_plans_and_teaching': m20261202040000,
 };
 
 export const migrationSource: Knex.MigrationSource<string> = {

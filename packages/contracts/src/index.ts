@@ -14,3 +14,4 @@ export * from './levels';
 export * from './engine';
 export * from './imports';
 export * from './caseload';
+export * from './plans';

@@ -22,6 +22,18 @@ export const paths = {
     path: '/courses/:courseId/import',
     getHref: (courseId: string) => `/courses/${courseId}/import`,
   },
+  plan: {
+    path: '/courses/:courseId/plans/:planId',
+    getHref: (courseId: string, planId: string) => `/courses/${courseId}/plans/${planId}`,
+  },
+  reviewPlan: {
+    path: '/reviews/:planId',
+    getHref: (planId: string) => `/reviews/${planId}`,
+  },
+  teachingCase: {
+    path: '/teaching/:caseId',
+    getHref: (caseId: string) => `/teaching/${caseId}`,
+  },
   teaching: { path: '/teaching', getHref: () => '/teaching' },
   reviews: { path: '/reviews', getHref: () => '/reviews' },
   drugModels: { path: '/drug-models', getHref: () => '/drug-models' },

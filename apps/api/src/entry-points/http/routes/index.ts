@@ -6,6 +6,8 @@ import { drugModelRoutes } from './drug-models';
 import { healthRoutes } from './health';
 import { meRoutes } from './me';
 import { patientRoutes } from './patients';
+import { planRoutes } from './plans';
+import { reviewRoutes } from './reviews';
 import { userRoutes } from './users';
 
 /**
@@ -19,5 +21,7 @@ export function registerRoutes(api: Router, deps: AppDeps): void {
   api.use(patientRoutes(deps.db));
   api.use(courseRoutes(deps.db));
   api.use(drugModelRoutes(deps.db));
+  api.use(planRoutes(deps));
+  api.use(reviewRoutes(deps));
   api.use(providerEventRoutes({ db: deps.db, secret: deps.config.idpEventSecret }));
 }
