@@ -1,16 +1,10 @@
 import { buildEvents, sameTime, type EventSchedule } from './dosing/events';
 import { validateDoses } from './dosing/validate-doses';
 import { EngineError } from './errors';
-import { createRk4Workspace, rk4Advance, RK4_STABILITY_LIMIT } from './integrator/rk4';
+import { RK4_STABILITY_LIMIT } from './integrator/rk4';
 import { fastestRate, hasOralDose, resolveModel, type ResolvedModel } from './models/parameters';
-import {
-  createSystem,
-  STATE_AUC,
-  STATE_CENTRAL,
-  STATE_DEPOT,
-  STATE_SIZE,
-  type PkSystem,
-} from './models/rhs';
+import { STATE_AUC, STATE_CENTRAL, STATE_DEPOT, STATE_SIZE } from './models/rhs';
+import { createStepper, type PkStepper } from './models/steppers';
 import { requireFinite, requirePositive } from './models/validate';
 import type { Dose, ModelStructure, PkParameters } from './types';
 
@@ -135,19 +129,19 @@ function stepsFor(span: number, h: number): number {
  * (right-continuous: after the events at that instant). Returns the number of RK4 steps taken.
  */
 function integrateGrid(
-  sys: PkSystem,
+  step: PkStepper,
   plan: Plan,
   grid: Float64Array,
   eventAt: Int32Array,
   h: number,
   outC: Float64Array,
   outAuc: Float64Array,
+  multiplier = 1,
 ): number {
   const { events } = plan;
   const invV1 = 1 / plan.resolved.V1;
   const y = new Float64Array(STATE_SIZE);
-  const ws = createRk4Workspace(STATE_SIZE);
-  sys.rate = 0;
+  let rate = 0;
   let steps = 0;
   const g = grid.length;
   for (let i = 0; i < g; i++) {
@@ -155,66 +149,73 @@ function integrateGrid(
     if (e >= 0) {
       y[STATE_CENTRAL] = (y[STATE_CENTRAL] as number) + (events.bolus[e] as number);
       y[STATE_DEPOT] = (y[STATE_DEPOT] as number) + (events.depot[e] as number);
-      sys.rate = events.rate[e] as number;
+      rate = events.rate[e] as number;
     }
     outC[i] = (y[STATE_CENTRAL] as number) * invV1;
     outAuc[i] = y[STATE_AUC] as number;
     if (i + 1 < g) {
       const span = (grid[i + 1] as number) - (grid[i] as number);
-      const n = stepsFor(span, h);
-      rk4Advance(sys, y, span / n, n, ws);
+      const n = stepsFor(span, h) * multiplier;
+      step(y, span / n, n, rate);
       steps += n;
     }
   }
   return steps;
 }
 
-/** Sorted union of event times and extra times (deduplicated with `sameTime`); eventAt maps grid → event index. */
+/**
+ * Sorted union of event times and extra times (deduplicated with `sameTime`). `eventAt` maps grid → event
+ * index (−1 if none); `extraAt` maps each extra time (in the caller's order) → its grid index.
+ * Typed arrays throughout; the extra times are sorted only if they are not already in order.
+ */
 function mergeGrid(
   events: Float64Array,
-  extra: readonly number[],
-): { grid: Float64Array; eventAt: Int32Array } {
-  const sortedExtra = extra.slice().sort((a, b) => a - b);
-  const grid: number[] = [];
-  const eventAt: number[] = [];
+  extra: ArrayLike<number>,
+): { grid: Float64Array; eventAt: Int32Array; extraAt: Int32Array } {
+  const ne = events.length;
+  const m = extra.length;
+  let order: Int32Array | null = null;
+  for (let j = 1; j < m; j++) {
+    if ((extra[j] as number) < (extra[j - 1] as number)) {
+      const idx = Array.from({ length: m }, (_, k) => k);
+      idx.sort((x, y) => (extra[x] as number) - (extra[y] as number));
+      order = Int32Array.from(idx);
+      break;
+    }
+  }
+  const grid = new Float64Array(ne + m);
+  const eventAt = new Int32Array(ne + m);
+  const extraAt = new Int32Array(m);
+  let g = 0;
   let i = 0;
   let j = 0;
-  const push = (t: number, e: number): void => {
-    const k = grid.length - 1;
-    if (k >= 0 && sameTime(grid[k] as number, t)) {
-      if (e >= 0) {
-        eventAt[k] = e;
-        grid[k] = t;
-      }
-      return;
-    }
-    grid.push(t);
-    eventAt.push(e);
-  };
-  while (i < events.length || j < sortedExtra.length) {
-    const te = i < events.length ? (events[i] as number) : Infinity;
-    const tx = j < sortedExtra.length ? (sortedExtra[j] as number) : Infinity;
+  while (i < ne || j < m) {
+    const te = i < ne ? (events[i] as number) : Infinity;
+    const jj = j < m ? (order ? (order[j] as number) : j) : -1;
+    const tx = jj >= 0 ? (extra[jj] as number) : Infinity;
     if (te <= tx) {
-      push(te, i);
+      if (g > 0 && sameTime(grid[g - 1] as number, te)) {
+        grid[g - 1] = te;
+        eventAt[g - 1] = i;
+      } else {
+        grid[g] = te;
+        eventAt[g] = i;
+        g++;
+      }
       i++;
     } else {
-      push(tx, -1);
+      if (g > 0 && sameTime(grid[g - 1] as number, tx)) {
+        extraAt[jj] = g - 1;
+      } else {
+        grid[g] = tx;
+        eventAt[g] = -1;
+        extraAt[jj] = g;
+        g++;
+      }
       j++;
     }
   }
-  return { grid: Float64Array.from(grid), eventAt: Int32Array.from(eventAt) };
-}
-
-function gridIndex(grid: Float64Array, t: number): number {
-  let lo = 0;
-  let hi = grid.length - 1;
-  while (lo < hi) {
-    const mid = (lo + hi) >> 1;
-    const g = grid[mid] as number;
-    if (g < t && !sameTime(g, t)) lo = mid + 1;
-    else hi = mid;
-  }
-  return lo;
+  return { grid: grid.subarray(0, g), eventAt: eventAt.subarray(0, g), extraAt };
 }
 
 /**
@@ -242,9 +243,9 @@ function errorEstimateOf(
   const scratch = new Float64Array(g);
   // Coarse run: per segment m = ceil(span / 4h) steps; fine run: exactly 2m.
   const hCoarse = 4 * plan.h;
-  const sysC = createSystem(plan.resolved);
-  let steps = integrateGrid(sysC, plan, grid, eventAt, hCoarse, coarseC, scratch);
-  steps += integrateDoubled(plan, grid, eventAt, hCoarse, fineC);
+  const step = createStepper(plan.resolved);
+  let steps = integrateGrid(step, plan, grid, eventAt, hCoarse, coarseC, scratch);
+  steps += integrateGrid(step, plan, grid, eventAt, hCoarse, fineC, scratch, 2);
   let est = 0;
   for (let i = 0; i < g; i++) {
     const d = Math.abs((fineC[i] as number) - (coarseC[i] as number)) / 15 / 16;
@@ -256,45 +257,14 @@ function errorEstimateOf(
 /** Most output times the error companion also stops at to compare its two runs (besides events). */
 const COMPANION_CHECKS = 64;
 
-/** Like integrateGrid with step h, but every segment takes exactly twice the steps the h-run takes. */
-function integrateDoubled(
-  plan: Plan,
-  grid: Float64Array,
-  eventAt: Int32Array,
-  h: number,
-  outC: Float64Array,
-): number {
-  const { events } = plan;
-  const sys = createSystem(plan.resolved);
-  const invV1 = 1 / plan.resolved.V1;
-  const y = new Float64Array(STATE_SIZE);
-  const ws = createRk4Workspace(STATE_SIZE);
-  let steps = 0;
-  for (let i = 0; i < grid.length; i++) {
-    const e = eventAt[i] as number;
-    if (e >= 0) {
-      y[STATE_CENTRAL] = (y[STATE_CENTRAL] as number) + (events.bolus[e] as number);
-      y[STATE_DEPOT] = (y[STATE_DEPOT] as number) + (events.depot[e] as number);
-      sys.rate = events.rate[e] as number;
-    }
-    outC[i] = (y[STATE_CENTRAL] as number) * invV1;
-    if (i + 1 < grid.length) {
-      const span = (grid[i + 1] as number) - (grid[i] as number);
-      const n = 2 * stepsFor(span, h);
-      rk4Advance(sys, y, span / n, n, ws);
-      steps += n;
-    }
-  }
-  return steps;
-}
-
 /**
  * Simulate the central concentration and AUC of a one- or two-compartment model with linear or
  * Michaelis-Menten elimination under an explicit dose list, by event-aligned fixed-step RK4.
  *
  * Method: the dose list becomes a schedule of discontinuities (bolus jumps, depot additions at dose + tlag,
  * infusion starts and stops); the time axis is split at the union of those, the output times and the AUC
- * window ends, and each piece is covered by a whole number of equal RK4 steps (`rk4Advance`), so steps land
+ * window ends, and each piece is covered by a whole number of equal RK4 steps (`rk4Advance`, run through
+ * the model's specialised stepper `createStepper`), so steps land
  * exactly on every event. Step h = min(maxStep, maxRateStep/λmax), λmax the fastest rate in the model.
  * AUC is the fourth state (dAUC/dt = C). The state is zero before the first event. Concentrations are
  * right-continuous: a bolus at exactly an output time is included in that output.
@@ -349,7 +319,7 @@ export function simulate(input: SimulateInput): SimulateResult {
     }
     extra.push(a, b);
   }
-  const { grid, eventAt } = mergeGrid(plan.events.times, extra);
+  const { grid, eventAt, extraAt } = mergeGrid(plan.events.times, extra);
   const g = grid.length;
   if (g === 0) {
     return {
@@ -376,7 +346,7 @@ export function simulate(input: SimulateInput): SimulateResult {
   const gridC = new Float64Array(g);
   const gridAuc = new Float64Array(g);
   const steps = integrateGrid(
-    createSystem(plan.resolved),
+    createStepper(plan.resolved),
     plan,
     grid,
     eventAt,
@@ -389,13 +359,16 @@ export function simulate(input: SimulateInput): SimulateResult {
   const cumulativeAucs = new Array<number>(outputTimes.length);
   let cmax = 0;
   for (let i = 0; i < outputTimes.length; i++) {
-    const k = gridIndex(grid, outputTimes[i] as number);
+    const k = extraAt[i] as number;
     concentrations[i] = gridC[k] as number;
     cumulativeAucs[i] = gridAuc[k] as number;
   }
   for (let i = 0; i < g; i++) if ((gridC[i] as number) > cmax) cmax = gridC[i] as number;
+  const nOut = outputTimes.length;
   const aucs = windows.map(
-    ([a, b]) => (gridAuc[gridIndex(grid, b)] as number) - (gridAuc[gridIndex(grid, a)] as number),
+    (_, w) =>
+      (gridAuc[extraAt[nOut + 2 * w + 1] as number] as number) -
+      (gridAuc[extraAt[nOut + 2 * w] as number] as number),
   );
   let errorEstimate: number | null = null;
   let errorSteps = 0;

@@ -3,6 +3,9 @@ import { describe, expect, it } from 'vitest';
 import { closedFormConcentrations } from '../closed-form/linear';
 import { michaelisMentenSteadyState, michaelisMentenTime90 } from '../closed-form/michaelis-menten';
 import { createRk4Workspace, rk4Advance, RK4_STABILITY_LIMIT } from '../integrator/rk4';
+import { resolveModel } from '../models/parameters';
+import { createSystem } from '../models/rhs';
+import { createStepper } from '../models/steppers';
 import { simulate } from '../simulate';
 import type { Dose, ModelStructure, PkParameters } from '../types';
 import { grid, maxRelErr, relErr, RK4_REL_TOL } from './helpers';
@@ -85,6 +88,25 @@ describe('integrator/rk4', () => {
     expect(y[0]).toBeGreaterThan(1); // just past 2.785293563 the step amplifies
     expect(RK4_STABILITY_LIMIT).toBeCloseTo(2.785293563, 9);
   });
+});
+
+describe('models/steppers', () => {
+  for (const [label, model, params] of [
+    ['2-cmt linear with depot', TWO, { CL: 4.8, V1: 30, Q: 7.5, V2: 42, ka: 1.2 }],
+    ['1-cmt Michaelis-Menten with depot', MM1, { V1: 45, Vmax: 20, Km: 4.5, ka: 0.6 }],
+  ] as const) {
+    it(`createStepper(${label}) equals rk4Advance(createSystem(...)) to rounding`, () => {
+      const m = resolveModel(model, params, true);
+      const sys = createSystem(m);
+      sys.rate = 37;
+      const a = Float64Array.of(300, 500, 120, 0);
+      const b = Float64Array.from(a);
+      rk4Advance(sys, a, 0.07, 200, createRk4Workspace(4));
+      createStepper(m)(b, 0.07, 200, 37);
+      for (let i = 0; i < 4; i++)
+        expect(relErr(b[i] as number, a[i] as number)).toBeLessThan(1e-13);
+    });
+  }
 });
 
 describe('simulate vs odex', () => {
