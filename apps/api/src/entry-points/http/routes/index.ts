@@ -4,6 +4,7 @@ import { providerEventRoutes } from './auth-provider-events';
 import { courseRoutes } from './courses';
 import { drugModelRoutes } from './drug-models';
 import { healthRoutes } from './health';
+import { importRoutes } from './imports';
 import { meRoutes } from './me';
 import { patientRoutes } from './patients';
 import { planRoutes } from './plans';
@@ -21,6 +22,7 @@ export function registerRoutes(api: Router, deps: AppDeps): void {
   api.use(patientRoutes(deps.db));
   api.use(courseRoutes(deps.db));
   api.use(drugModelRoutes(deps.db));
+  api.use(importRoutes(deps.db));
   api.use(planRoutes(deps));
   api.use(reviewRoutes(deps));
   api.use(providerEventRoutes({ db: deps.db, secret: deps.config.idpEventSecret }));
