@@ -20,7 +20,14 @@ export interface RunningServer {
  */
 export async function startServer(overrides: Partial<AppConfigInput> = {}): Promise<RunningServer> {
   const initial = loadConfig(process.env, overrides);
-  const server: Server = createServer();
+  // Requests that arrive while the app is still being built wait for it rather than hang.
+  const current: { app?: ReturnType<typeof createApp> } = {};
+  let appReady!: () => void;
+  const ready = new Promise<void>((resolve) => (appReady = resolve));
+  const server: Server = createServer((req, res) => {
+    if (current.app) current.app(req, res);
+    else void ready.then(() => current.app!(req, res));
+  });
   await new Promise<void>((resolve, reject) => {
     server.once('error', reject);
     server.listen(initial.port, initial.host, () => resolve());
@@ -37,8 +44,8 @@ export async function startServer(overrides: Partial<AppConfigInput> = {}): Prom
   const workers: RunningWorkers | undefined = config.runWorkers
     ? await startWorkers({ config, db, logger, boss })
     : undefined;
-  const app = createApp({ config, db, logger });
-  server.on('request', app);
+  current.app = createApp({ config, db, logger });
+  appReady();
   const url = `http://${config.host}:${port}`;
   logger.info({ url, issuer: config.oidcIssuer }, 'Ebbtide API listening');
   return {

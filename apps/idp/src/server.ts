@@ -46,6 +46,14 @@ export async function startIdp(
   }
   ensureStyles();
   const server = options.server ?? createServer();
+  // Requests that arrive while the provider is still being built wait for it rather than hang.
+  const current: { handler?: ReturnType<typeof createIdpApp>['app'] } = {};
+  let appReady!: () => void;
+  const ready = new Promise<void>((resolve) => (appReady = resolve));
+  server.on('request', (req, res) => {
+    if (current.handler) current.handler(req, res);
+    else void ready.then(() => current.handler!(req, res));
+  });
   if (!server.listening) {
     await new Promise<void>((resolve, reject) => {
       server.once('error', reject);
@@ -57,8 +65,8 @@ export async function startIdp(
   const host = config.host === '::1' ? '[::1]' : config.host;
   const issuer = config.issuer ?? `http://${host}:${port}`;
   const logger = pino({ level: config.logLevel, base: { service: 'ebbtide-idp' } });
-  const { app } = createIdpApp({ config, issuer, accounts, logger });
-  server.on('request', app);
+  current.handler = createIdpApp({ config, issuer, accounts, logger }).app;
+  appReady();
   logger.info({ issuer }, 'local identity provider listening');
   return {
     issuer,
