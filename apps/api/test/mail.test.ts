@@ -3,6 +3,7 @@ import { startMailCatcher, type RunningMailCatcher } from '@ebbtide/mailcatcher'
 import type PgBoss from 'pg-boss';
 import { pino } from 'pino';
 import { afterAll, afterEach, beforeAll, beforeEach, describe, expect, it } from 'vitest';
+import { loadConfig } from '../src/config';
 import { createDb, type Db } from '../src/data-access/db';
 import { createJobQueue } from '../src/jobs/queue';
 import {
@@ -13,6 +14,7 @@ import {
   type RunningMailWorker,
 } from '../src/mail/mail-worker';
 import { enqueueMail, type MailOutboxRow, type OutgoingMail } from '../src/mail/outbox';
+import { planSubmittedMail } from '../src/mail/templates';
 import { createMailTransport } from '../src/mail/transport';
 
 // Real PostgreSQL (DATABASE_URL from the test command) and the real mail catcher, in-process.
@@ -147,6 +149,44 @@ describe('mail delivery', () => {
     expect(got.messageId).toBe(row.message_id);
     const res = await fetch(`${catcher.httpUrl}/messages`);
     expect(((await res.json()) as unknown[]).length).toBe(1);
+  });
+
+  it('when a plan-submitted mail is sent under the default policy, then the delivered message has the link and ward but no patient name or MRN', async () => {
+    // Arrange: the plan's patient is invented; the mapper passes only what the policy may show
+    await startWorker(boss, queueName, catcher.smtpPort);
+    const policy = loadConfig({}).mailPatientDetail;
+    const planId = randomUUID();
+    const rendered = planSubmittedMail(
+      {
+        planUrl: `http://127.0.0.1:4610/plans/${planId}`,
+        planVersion: 1,
+        ward: '4 North',
+        patientInitials: 'I.M.',
+        actorName: 'Priya Halvorsen',
+      },
+      policy,
+    );
+
+    // Act
+    await db.transaction((trx) =>
+      enqueueMail(
+        trx,
+        {
+          idempotencyKey: `plan:${planId}:submitted:v1`,
+          kind: 'plan.submitted',
+          to: ['reviewer.okafor@kestrelbay.example'],
+          ...rendered,
+        },
+        { boss, queueName },
+      ),
+    );
+
+    // Assert
+    const got = await catcher.waitForMessage((m) => m.text.includes(planId));
+    const body = `${got.subject}\n${got.text}\n${got.html ?? ''}`;
+    expect(body).toContain(`/plans/${planId}`);
+    expect(body).toContain('4 North');
+    expect(body).not.toMatch(/MERIWETHER|Isla|KB-0042917|1959-04-18|I\.M\./i);
   });
 
   it('when the enqueuing transaction rolls back, then neither the row nor the job remains and nothing is sent', async () => {

@@ -156,7 +156,9 @@ export function recheckOverdueMail(
     minute: '2-digit',
     hourCycle: 'h23',
     timeZoneName: 'short',
-  }).format(ctx.recheckDueAt);
+  })
+    .format(ctx.recheckDueAt)
+    .replace('GMT', 'UTC');
   return build({ ...ctx, actorName: '' }, policy, {
     subject: 'Dosing plan past its re-check time',
     lead: 'A dosing plan you wrote is past its re-check time.',
