@@ -46,7 +46,7 @@ describe('sign-in through the local identity provider', () => {
       expect(me.status).toBe(200);
       expect(me.body).toMatchObject({ role, email: `${login}@kestrelbay.example` });
       const user = await db('users')
-        .where({ subject: (me.body as { subject: string }).subject })
+        .where({ subject: (me.body as { subject: string }).subject, issuer: running.idp.issuer })
         .first();
       expect(user).toMatchObject({ role, issuer: running.idp.issuer });
 
