@@ -25,7 +25,10 @@ export interface PlanWorld {
   stop: () => Promise<void>;
 }
 
-export async function startPlanWorld(overrides: Partial<AppConfigInput> = {}): Promise<PlanWorld> {
+export async function startPlanWorld(
+  overrides: Partial<AppConfigInput> = {},
+  options: { mailQueueName?: string } = {},
+): Promise<PlanWorld> {
   if (!process.env.DATABASE_URL) throw new Error('DATABASE_URL is not set');
   const config = loadConfig(process.env, { logLevel: 'silent', nodeEnv: 'test', ...overrides });
   const db = createDb(config.databaseUrl);
@@ -33,8 +36,9 @@ export async function startPlanWorld(overrides: Partial<AppConfigInput> = {}): P
   boss.on('error', () => {});
   await boss.start();
   await ensureMailQueue(boss);
+  if (options.mailQueueName) await ensureMailQueue(boss, options.mailQueueName);
   await syncEngineLibrary(db, drugModelLibrary);
-  const deps = { config, db, logger: createLogger(config), boss };
+  const deps = { config, db, logger: createLogger(config), boss, ...options };
   const app = createApp(deps);
   return {
     app,

@@ -44,15 +44,13 @@ import {
 } from '../../mail/templates';
 import { requireCourse, type CourseContext } from '../courses/courses';
 import { assertMayWrite, auditActor, invalid, type CaseworkActor } from '../patients/common';
+import { CLINICAL_CAUTION } from './caution';
 import { contentHash } from './content-hash';
 import { computeBasis, engineUnavailable, type CourseEngine } from './engine-basis';
 import { defaultSampling, planRegimen, planSampling, regimenWarnings } from './schedule';
 import { assertFreshAuthentication, type SigningAuthentication } from './signing';
 
-/** Same wording as the client's clinical-caution component and the PDF report. */
-export const CLINICAL_CAUTION =
-  'Ebbtide supports, and does not replace, clinical judgement. Every result must be checked by a ' +
-  'qualified pharmacist against the patient, local protocols and licensed practice, which take precedence.';
+export { CLINICAL_CAUTION };
 
 /** Puts a message in the mail outbox inside the caller's transaction. */
 export interface PlanMailer {

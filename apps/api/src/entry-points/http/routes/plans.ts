@@ -18,6 +18,7 @@ import { createJobQueue } from '../../../jobs/queue';
 import { ensureMailQueue } from '../../../mail/mail-worker';
 import { enqueueMail } from '../../../mail/outbox';
 import type { CourseEngine } from '../../../domain/plans/engine-basis';
+import { libraryCourseEngine } from '../../../domain/plans/library-engine';
 import {
   countersignPlan,
   createPlan,
@@ -44,7 +45,12 @@ import { parseRequest } from '../middlewares/validate';
 import { createOidcClient, oidc } from './auth-oidc';
 
 /** Optional collaborators a caller may hand in (the server's started job queue, the engine). */
-type PlanAppDeps = AppDeps & { boss?: PgBoss; courseEngine?: CourseEngine };
+type PlanAppDeps = AppDeps & {
+  boss?: PgBoss;
+  courseEngine?: CourseEngine;
+  /** The pg-boss queue mail jobs go to (tests isolate themselves with their own). */
+  mailQueueName?: string;
+};
 
 /**
  * The mail outbox writer. Uses the app's job queue when the server passes one; otherwise starts
@@ -68,7 +74,10 @@ export function outboxMailer(deps: PlanAppDeps): PlanMailer {
   };
   return {
     enqueue: async (conn: Conn, message) => {
-      await enqueueMail(conn, message, { boss: await boss() });
+      await enqueueMail(conn, message, {
+        boss: await boss(),
+        ...(deps.mailQueueName ? { queueName: deps.mailQueueName } : {}),
+      });
     },
   };
 }
@@ -79,7 +88,7 @@ export function planDeps(deps: PlanAppDeps): PlanDeps {
     mailPatientDetail?: PlanDeps['mailPolicy'];
   };
   return {
-    engine: deps.courseEngine ?? null,
+    engine: deps.courseEngine ?? libraryCourseEngine,
     mailer: outboxMailer(deps),
     timeZone: config.hospitalTimeZone ?? 'Australia/Brisbane',
     publicOrigin: publicOrigin(deps.config),
