@@ -10,6 +10,7 @@ import {
   deliverOutboxMessage,
   ensureMailQueue,
   startMailWorker,
+  sweepMailOutbox,
   type MailRetryPolicy,
   type RunningMailWorker,
 } from '../src/mail/mail-worker';
@@ -282,6 +283,91 @@ describe('mail delivery', () => {
     expect(await deliverOutboxMessage(db, transports[0]!, outboxId, { from: FROM })).toBe(
       'already-sent',
     );
+  });
+});
+
+describe('mail outbox recovery', () => {
+  let catcher: RunningMailCatcher;
+  let boss: PgBoss;
+  let queueName: string;
+
+  beforeAll(async () => {
+    catcher = await startMailCatcher({ smtpPort: 0, httpPort: 0, nodeEnv: 'test' });
+    boss = await startBoss();
+  });
+  afterAll(async () => {
+    await catcher?.stop();
+  });
+  beforeEach(async () => {
+    catcher.clear();
+    queueName = `mail-test-${randomUUID()}`;
+    await ensureMailQueue(boss, queueName, FAST_RETRY);
+  });
+
+  it('when a failed row has no job left (retries used up), then the sweep queues it again and it is delivered once', async () => {
+    // Arrange: a row that failed long ago and whose job is gone
+    const mail = message();
+    const [row] = (await db('mail_outbox')
+      .insert({
+        idempotency_key: mail.idempotencyKey,
+        kind: mail.kind,
+        to: mail.to,
+        subject: mail.subject,
+        text_body: mail.text,
+        status: 'failed',
+        attempts: 12,
+        last_error: 'connect ECONNREFUSED',
+        claimed_at: db.raw("now() - interval '2 hours'"),
+      })
+      .returning('id')) as Array<{ id: string }>;
+    await startWorker(boss, queueName, catcher.smtpPort);
+
+    // Act
+    const requeued = await sweepMailOutbox({ boss, db, queueName, olderThanSeconds: 3600 });
+
+    // Assert
+    expect(requeued).toBeGreaterThanOrEqual(1);
+    await catcher.waitForMessage((m) => m.subject === mail.subject);
+    const sent = await until('row sent', async () => {
+      const r = await outboxRow(row!.id);
+      return r?.status === 'sent' && r;
+    });
+    expect(sent.attempts).toBe(13);
+  });
+
+  it('when a row was left "sending" by a worker that died, then it is claimed again only after the lease', async () => {
+    // Arrange
+    const mail = message();
+    const [row] = (await db('mail_outbox')
+      .insert({
+        idempotency_key: mail.idempotencyKey,
+        kind: mail.kind,
+        to: mail.to,
+        subject: mail.subject,
+        text_body: mail.text,
+        status: 'sending',
+        attempts: 1,
+        claimed_at: db.raw("now() - interval '5 minutes'"),
+      })
+      .returning('id')) as Array<{ id: string }>;
+    const transport = createMailTransport({
+      host: '127.0.0.1',
+      port: catcher.smtpPort,
+      secure: false,
+      ignoreTls: true,
+    });
+
+    // Act / Assert: within the lease nothing is sent
+    expect(
+      await deliverOutboxMessage(db, transport, row!.id, { from: FROM, sendingLeaseSeconds: 600 }),
+    ).toBe('in-progress');
+    expect(catcher.messages()).toHaveLength(0);
+
+    // Act / Assert: after the lease it is sent
+    expect(
+      await deliverOutboxMessage(db, transport, row!.id, { from: FROM, sendingLeaseSeconds: 60 }),
+    ).toBe('sent');
+    expect(catcher.messages().filter((m) => m.subject === mail.subject)).toHaveLength(1);
   });
 });
 
