@@ -116,7 +116,12 @@ export const levelValidityResponseSchema = engineMetaSchema.extend({
   levels: z.array(
     z.object({
       levelId: z.uuid(),
+      /** usable-log-linear: usable for the two-level method (and for a Bayesian fit unless `bayesian.usable` is false). */
       verdict: levelVerdictSchema,
+      /** The engine's own verdict. */
+      engineVerdict: z.enum(['both', 'bayesian-only', 'log-linear-only', 'neither']),
+      bayesian: z.object({ usable: z.boolean(), reason: z.string() }),
+      logLinear: z.object({ usable: z.boolean(), reason: z.string() }),
       reasons: z.array(z.string()),
       hoursAfterInfusionEnd: z.number().nullable(),
     }),
@@ -178,8 +183,15 @@ export const ptaResultSchema = engineMetaSchema.extend({
   samples: z.number().int(),
   /** Probability of target attainment, 0..1. */
   probability: z.number(),
-  /** Percentiles of the target metric across the simulated patients. */
+  /** Percentiles of the target metric across the simulated patients (empty when the engine gives none). */
   percentiles: z.record(z.string(), z.number()),
+  /** Monte Carlo standard error of `probability`. */
+  standardError: z.number(),
+  /** Fraction of virtual patients meeting each target separately. */
+  perTarget: z.record(z.string(), z.number()),
+  regimen: z.object({ doseMg: z.number(), intervalH: z.number(), infusionH: z.number() }),
+  /** Where the virtual patients came from. */
+  source: z.enum(['population', 'posterior']),
 });
 export type PtaResult = z.infer<typeof ptaResultSchema>;
 

@@ -1,0 +1,540 @@
+import type {
+  FitRequest,
+  FitResponse,
+  LevelValidityResponse,
+  Regimen,
+  RegimenSearchRequest,
+  RegimenSearchResponse,
+  SimulateRequest,
+  SimulateResponse,
+  Target,
+  Warning,
+} from '@ebbtide/contracts';
+import {
+  assessLevels,
+  concentrationsAt,
+  findRegimens,
+  fitMap,
+  populationPrediction,
+  regimenPresets,
+  simulate,
+  twoLevelEstimate,
+  type Dose,
+  type ExposureTarget,
+  type MapFitResult,
+  type PkParameters,
+  type RegimenCandidate,
+} from '@ebbtide/kinetics';
+import type { Conn } from '../../data-access/casework-db';
+import { AppError } from '../../lib/app-error';
+import type { CaseworkActor } from '../patients/common';
+import {
+  atOf,
+  CAUTION,
+  engineRefused,
+  hoursOf,
+  loadEngineCase,
+  uniqueWarnings,
+  type EngineCase,
+} from './context';
+
+/** Above this shrinkage (0..1) the estimate says little beyond the prior. */
+export const HEAVY_SHRINKAGE = 0.5;
+/** Most points a simulate response returns. */
+export const MAX_POINTS = 5000;
+
+const modelRef = (c: EngineCase) => ({ id: c.ctx.model.id, version: c.ctx.model.version });
+const asRecord = (p: PkParameters) => ({ ...(p as unknown as Record<string, number>) });
+
+/** The course target as the engine's ExposureTarget (css is AUC24 = Css × 24). */
+export function exposureTarget(
+  target: Target,
+  micMgL: number | null,
+  warnings: Warning[],
+): ExposureTarget {
+  const range = {
+    ...(target.low !== null ? { min: target.low } : {}),
+    ...(target.high !== null ? { max: target.high } : {}),
+  };
+  switch (target.metric) {
+    case 'auc24':
+      return { auc24: range };
+    case 'trough':
+      return { trough: range };
+    case 'peak':
+      return { peak: range };
+    case 'css':
+      return {
+        auc24: {
+          ...(target.low !== null ? { min: target.low * 24 } : {}),
+          ...(target.high !== null ? { max: target.high * 24 } : {}),
+        },
+      };
+    case 'peak-mic-ratio':
+      if (micMgL === null)
+        warnings.push({
+          code: 'mic-assumed',
+          message: 'No MIC recorded: the peak/MIC target assumes MIC 1 mg/L.',
+        });
+      return { peakToMic: { min: target.low ?? target.high ?? 10, mic: micMgL ?? 1 } };
+  }
+}
+
+function requireLevels(c: EngineCase, method: string): void {
+  if (c.levels.length === 0) {
+    throw new AppError(
+      'no-levels',
+      `A ${method} fit needs at least one measured level on this course`,
+      422,
+    );
+  }
+  if (c.doses.length === 0)
+    throw new AppError('no-doses', 'Record the doses given before fitting', 422);
+}
+
+function map(c: EngineCase): MapFitResult {
+  requireLevels(c, 'MAP');
+  try {
+    return fitMap({
+      model: c.structure,
+      prior: c.prior,
+      doses: c.doses,
+      levels: c.levels,
+      priorWarnings: c.warnings,
+    });
+  } catch (error) {
+    engineRefused(error);
+  }
+}
+
+function mapWarnings(fit: MapFitResult): Warning[] {
+  const w: Warning[] = [...fit.warnings];
+  const heavy = Object.entries(fit.shrinkage ?? {}).filter(([, s]) => s > HEAVY_SHRINKAGE);
+  if (heavy.length && !w.some((x) => x.code === 'heavy-shrinkage')) {
+    w.push({
+      code: 'heavy-shrinkage',
+      message: `Heavy shrinkage toward the prior for ${heavy.map(([k]) => k).join(', ')}: the levels say little about them.`,
+    });
+  }
+  return w;
+}
+
+/** Parameters to simulate with: the covariate-adjusted population prior or the MAP estimate. */
+function parametersFor(
+  c: EngineCase,
+  which: 'population' | 'map',
+): { parameters: PkParameters; warnings: Warning[] } {
+  if (which === 'population') {
+    return {
+      parameters: { ...c.prior.typical } as unknown as PkParameters,
+      warnings: [
+        {
+          code: 'population-only',
+          message:
+            'Population parameters for a typical patient with these covariates; no level informs them.',
+        },
+      ],
+    };
+  }
+  const fit = map(c);
+  return { parameters: fit.parameters, warnings: mapWarnings(fit) };
+}
+
+function regimenDoses(c: EngineCase, r: Regimen): { doses: Dose[]; start: number } {
+  const last = c.doses[c.doses.length - 1];
+  let start: number;
+  if (r.startHour !== undefined || r.startAt !== undefined) {
+    if (c.referenceAt === null && r.startAt !== undefined)
+      throw new AppError('validation-failed', 'Teaching cases use startHour', 400, {
+        fieldErrors: { startAt: ['teaching cases have no real dates: give startHour'] },
+      });
+    if (c.referenceAt !== null && r.startHour !== undefined)
+      throw new AppError('validation-failed', 'Real patients use startAt', 400, {
+        fieldErrors: { startHour: ['give startAt as an ISO date-time'] },
+      });
+    start = hoursOf(c.referenceAt, r.startAt ?? null, r.startHour ?? null);
+  } else start = last ? last.time + r.intervalH : 0;
+  const route =
+    r.infusionH === 0 || r.route === 'iv-bolus'
+      ? 'bolus'
+      : r.route === 'oral' || r.route === 'im'
+        ? 'oral'
+        : 'infusion';
+  const dose = (time: number, amount: number): Dose =>
+    route === 'infusion' ? { time, amount, route, duration: r.infusionH } : { time, amount, route };
+  const out: Dose[] = [];
+  let t = start;
+  if (r.loadingDoseMg) {
+    out.push(dose(t, r.loadingDoseMg));
+    t += r.intervalH;
+  }
+  for (let i = 0; i < r.count; i++) out.push(dose(t + i * r.intervalH, r.doseMg));
+  return { doses: out, start };
+}
+
+export async function simulateCourse(
+  db: Conn,
+  actor: CaseworkActor,
+  courseId: string,
+  req: SimulateRequest,
+): Promise<SimulateResponse> {
+  const c = await loadEngineCase(db, actor, courseId);
+  const { parameters, warnings } = parametersFor(c, req.parameters);
+  const planned = req.regimen ? regimenDoses(c, req.regimen) : null;
+  const doses = [...c.doses, ...(planned?.doses ?? [])].sort((a, b) => a.time - b.time);
+  if (doses.length === 0)
+    throw new AppError('no-doses', 'Nothing to simulate: record a dose or give a regimen', 422);
+  const first = doses[0] as Dose;
+  const lastStart = (doses[doses.length - 1] as Dose).time;
+  const from = Math.min(first.time, ...c.levels.map((l) => l.time));
+  const to = lastStart + (req.regimen ? req.regimen.intervalH : req.horizonH);
+  const step = Math.max(req.stepH, (to - from) / MAX_POINTS);
+  const times: number[] = [];
+  for (let i = 0; from + i * step <= to + 1e-9; i++) times.push(from + i * step);
+  // Exposure over the last regimen interval (or the last 24 h simulated).
+  const windowH = req.regimen ? req.regimen.intervalH : 24;
+  const wFrom = Math.max(from, to - windowH);
+  let result;
+  try {
+    result = simulate({
+      model: c.structure,
+      parameters,
+      doses,
+      outputTimes: times,
+      aucWindows: [[wFrom, to]],
+    });
+  } catch (error) {
+    engineRefused(error);
+  }
+  const inWindow = result.concentrations.filter((_, i) => (times[i] as number) >= wFrom - 1e-9);
+  const auc = result.aucs[0] ?? null;
+  if (result.outcome === 'inaccurate')
+    warnings.push({
+      code: 'integration-inaccurate',
+      message: `The integrator's error estimate (${result.errorEstimate} mg/L) exceeds its tolerance.`,
+    });
+  return {
+    model: modelRef(c),
+    warnings: uniqueWarnings([...c.warnings, ...warnings]),
+    caution: CAUTION,
+    parameters: asRecord(parameters),
+    points: times.map((hour, i) => ({
+      hour,
+      at: atOf(c.referenceAt, hour),
+      concentrationMgL: result.concentrations[i] as number,
+    })),
+    exposure: {
+      peakMgL: inWindow.length ? Math.max(...inWindow) : null,
+      troughMgL: inWindow.length ? Math.min(...inWindow) : null,
+      auc24: auc === null ? null : (auc * 24) / (to - wFrom),
+    },
+    errorEstimate: result.errorEstimate,
+  };
+}
+
+export async function fitCourse(
+  db: Conn,
+  actor: CaseworkActor,
+  courseId: string,
+  req: FitRequest,
+): Promise<FitResponse> {
+  const c = await loadEngineCase(db, actor, courseId, { excludeLevelIds: req.excludeLevelIds });
+  const population = { ...c.prior.typical };
+  const levelTimes = c.levels.map((l) => l.time);
+  const popPred = (): number[] => {
+    if (c.doses.length === 0 || levelTimes.length === 0) return levelTimes.map(() => Number.NaN);
+    try {
+      return concentrationsAt(
+        c.structure,
+        population as unknown as PkParameters,
+        c.doses,
+        levelTimes,
+      );
+    } catch (error) {
+      engineRefused(error);
+    }
+  };
+  const predictions = (indiv: number[] | null, pop: number[]) =>
+    c.levelRecords.map((l, i) => {
+      const observed = c.levels[i]?.value as number;
+      const predicted = indiv ? (indiv[i] ?? null) : null;
+      return {
+        levelId: l.id,
+        hour: c.levels[i]?.time as number,
+        observedMgL: observed,
+        predictedMgL: predicted !== null && Number.isFinite(predicted) ? predicted : null,
+        populationPredictedMgL: Number.isFinite(pop[i]) ? (pop[i] as number) : null,
+        residualMgL: predicted !== null && Number.isFinite(predicted) ? observed - predicted : null,
+      };
+    });
+  const base = {
+    model: modelRef(c),
+    caution: CAUTION,
+    method: req.method,
+    populationParameters: population,
+    levelsUsed: c.levels.length,
+  };
+  if (req.method === 'population') {
+    if (c.doses.length === 0) throw new AppError('no-doses', 'Record the doses given first', 422);
+    const pop = popPred();
+    const result = populationPrediction({
+      model: c.structure,
+      prior: c.prior,
+      doses: c.doses,
+      times: levelTimes,
+      priorWarnings: c.warnings,
+    });
+    return {
+      ...base,
+      warnings: uniqueWarnings(result.warnings),
+      parameters: asRecord(result.parameters),
+      uncertainty: null,
+      shrinkage: null,
+      predictions: predictions(pop, pop),
+    };
+  }
+  if (req.method === 'map') {
+    const fit = map(c);
+    const uncertainty = fit.intervals90
+      ? Object.fromEntries(
+          Object.entries(fit.intervals90).map(([k, [low, high]]) => [k, { low, high }]),
+        )
+      : null;
+    return {
+      ...base,
+      warnings: uniqueWarnings([...c.warnings, ...mapWarnings(fit)]),
+      parameters: asRecord(fit.parameters),
+      uncertainty,
+      shrinkage: fit.shrinkage ?? null,
+      predictions: c.levelRecords.map((l, i) => {
+        const lf = fit.levels[i];
+        return {
+          levelId: l.id,
+          hour: c.levels[i]?.time as number,
+          observedMgL: c.levels[i]?.value as number,
+          predictedMgL: lf?.individual ?? null,
+          populationPredictedMgL: lf?.population ?? null,
+          residualMgL: lf?.residual ?? null,
+        };
+      }),
+    };
+  }
+  // Two-level (Sawchuk-Zaske) log-linear method.
+  requireLevels(c, 'two-level');
+  let result;
+  try {
+    result = twoLevelEstimate({
+      doses: c.doses.map((d) => ({
+        time: d.time,
+        amount: d.amount,
+        duration: d.duration,
+        route: d.route,
+      })),
+      levels: c.levels,
+    });
+  } catch (error) {
+    engineRefused(error);
+  }
+  if (result.outcome === 'refused') {
+    throw new AppError(
+      'engine-refused',
+      `The two-level method cannot use these levels: ${result.refusals.map((r) => r.message).join(' ')}`,
+      422,
+      {
+        refusals: result.refusals,
+      },
+    );
+  }
+  const params = { CL: result.CL, V1: result.V };
+  let indiv: number[] = [];
+  try {
+    indiv = concentrationsAt(
+      { compartments: 1, elimination: 'linear' },
+      params,
+      c.doses,
+      levelTimes,
+    );
+  } catch (error) {
+    engineRefused(error);
+  }
+  const warnings = [...c.warnings, ...result.warnings];
+  if (c.structure.compartments === 2) {
+    warnings.push({
+      code: 'one-compartment-method',
+      message:
+        'The two-level method treats the drug as one compartment; the library model has two.',
+    });
+  }
+  return {
+    ...base,
+    warnings: uniqueWarnings(warnings),
+    parameters: {
+      CL: result.CL,
+      V1: result.V,
+      k: result.k,
+      halfLife: result.halfLife,
+      ...(result.auc24 !== undefined ? { auc24: result.auc24 } : {}),
+    },
+    uncertainty: null,
+    shrinkage: null,
+    predictions: predictions(indiv, popPred()),
+  };
+}
+
+/** ln 2 × total volume / CL: the half-life used to judge steady state (terminal phase approximated). */
+function typicalHalfLife(c: EngineCase): number | undefined {
+  const t = c.prior.typical;
+  if (t.CL && t.V1) return (Math.LN2 * (t.V1 + (t.V2 ?? 0))) / t.CL;
+  return undefined;
+}
+
+export async function levelValidity(
+  db: Conn,
+  actor: CaseworkActor,
+  courseId: string,
+): Promise<LevelValidityResponse> {
+  const c = await loadEngineCase(db, actor, courseId);
+  if (c.levels.length === 0)
+    return {
+      model: modelRef(c),
+      warnings: uniqueWarnings(c.warnings),
+      caution: CAUTION,
+      levels: [],
+    };
+  if (c.doses.length === 0)
+    throw new AppError('no-doses', 'Record the doses given before checking levels', 422);
+  let assessed;
+  try {
+    assessed = assessLevels({
+      doses: c.doses,
+      levels: c.levels,
+      halfLife: typicalHalfLife(c),
+      drug: c.ctx.course.drug,
+    });
+  } catch (error) {
+    engineRefused(error);
+  }
+  const warnings = [...c.warnings];
+  if (assessed.some((a) => c.levels[a.level]?.kind === 'trough' && a.steadyState === false)) {
+    warnings.push({
+      code: 'non-steady-state-trough',
+      message:
+        'A trough was drawn before steady state: do not read it as a steady-state trough unless a Bayesian fit is used.',
+    });
+  }
+  if (assessed.some((a) => a.earlyTrough))
+    warnings.push({
+      code: 'early-trough',
+      message: 'A trough was drawn early, well before the next dose.',
+    });
+  return {
+    model: modelRef(c),
+    warnings: uniqueWarnings(warnings),
+    caution: CAUTION,
+    levels: assessed.map((a) => {
+      const record = c.levelRecords[a.level];
+      return {
+        levelId: record?.id as string,
+        verdict:
+          a.verdict === 'neither'
+            ? 'discard'
+            : a.verdict === 'bayesian-only'
+              ? 'usable-bayesian'
+              : 'usable-log-linear',
+        engineVerdict: a.verdict,
+        bayesian: a.bayesian,
+        logLinear: a.logLinear,
+        reasons: [
+          ...new Set([a.bayesian.reason, a.logLinear.reason, ...a.notes.map((n) => n.message)]),
+        ].filter(Boolean),
+        hoursAfterInfusionEnd: a.hoursSinceDoseEnd ?? null,
+      };
+    }),
+  };
+}
+
+function toRegimenResult(r: RegimenCandidate) {
+  return {
+    doseMg: r.amount,
+    intervalH: r.interval,
+    infusionH: r.infusionDuration,
+    loadingDoseMg: r.loadingDose?.amount ?? null,
+    exposure: {
+      peakMgL: r.steadyState.peak,
+      troughMgL: r.steadyState.trough,
+      auc24: r.steadyState.auc24,
+    },
+    meetsTarget: r.allTargetsMet,
+  };
+}
+
+export async function searchRegimens(
+  db: Conn,
+  actor: CaseworkActor,
+  courseId: string,
+  req: RegimenSearchRequest,
+): Promise<RegimenSearchResponse> {
+  const c = await loadEngineCase(db, actor, courseId);
+  if (c.structure.elimination !== 'linear') {
+    throw new AppError(
+      'engine-refused',
+      'The regimen finder covers linear models; for Michaelis-Menten drugs (phenytoin) simulate candidate regimens instead.',
+      422,
+    );
+  }
+  const which = req.parameters === 'map' && c.levels.length === 0 ? 'population' : req.parameters;
+  const extra: Warning[] = [];
+  if (which !== req.parameters)
+    extra.push({
+      code: 'no-levels',
+      message: 'No levels yet: regimens are from population parameters.',
+    });
+  const { parameters, warnings } = parametersFor(c, which);
+  const target = req.target ?? c.ctx.course.target;
+  const exposure = exposureTarget(target, c.ctx.course.micMgL, extra);
+  const practical = c.entry.practical;
+  const startTime =
+    req.startHour !== undefined || req.startAt !== undefined
+      ? hoursOf(c.referenceAt, req.startAt ?? null, req.startHour ?? null)
+      : (c.doses[c.doses.length - 1]?.time ?? 0) + 12;
+  let result;
+  try {
+    result = findRegimens({
+      model: c.structure,
+      parameters,
+      target: exposure,
+      options: {
+        ...(regimenPresets[c.ctx.course.drug] ?? {}),
+        ...(practical
+          ? { amountStep: practical.doseRoundingMg, intervals: practical.usualIntervalsH }
+          : {}),
+        ...(practical?.maxInfusionRateMgPerH
+          ? { maxInfusionRate: practical.maxInfusionRateMgPerH }
+          : {}),
+        ...(practical?.defaultInfusionH ? { minInfusionDuration: practical.defaultInfusionH } : {}),
+        ...(req.intervalsH ? { intervals: req.intervalsH } : {}),
+        ...(req.infusionH !== undefined ? { minInfusionDuration: req.infusionH } : {}),
+        ...(req.roundToMg ? { amountStep: req.roundToMg } : {}),
+        startTime,
+      },
+    });
+  } catch (error) {
+    engineRefused(error);
+  }
+  const regimens = result.candidates.map(toRegimenResult);
+  if (result.outcome === 'no-regimen-meets-targets')
+    extra.push({
+      code: 'no-regimen-meets-target',
+      message: 'No practical regimen meets every target; the closest are listed.',
+    });
+  return {
+    model: modelRef(c),
+    warnings: uniqueWarnings([...c.warnings, ...warnings, ...result.warnings, ...extra]),
+    caution: CAUTION,
+    target,
+    regimens,
+    suggestion: regimens.find((r) => r.meetsTarget) ?? null,
+  };
+}
+
+export { map as fitMapFor, parametersFor };

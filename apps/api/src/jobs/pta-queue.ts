@@ -1,0 +1,50 @@
+import type PgBoss from 'pg-boss';
+import type { Logger } from 'pino';
+import type { AppConfig } from '../config';
+import type { Db } from '../data-access/db';
+import { PTA_QUEUE, runPtaJob, type JobQueue } from '../domain/jobs/pta';
+import { createJobQueue } from './queue';
+
+/**
+ * The PTA queue on pg-boss. Started lazily by the first PTA request of this process, which also
+ * works the queue (pg-boss hands each job to exactly one worker across processes, so several API
+ * processes share the load). Job state and progress live in `engine_jobs`, so any process can
+ * answer the client's polling.
+ */
+const running = new Map<string, Promise<PgBoss>>();
+
+async function start(
+  config: Pick<AppConfig, 'databaseUrl'>,
+  db: Db,
+  logger: Logger,
+): Promise<PgBoss> {
+  const boss = createJobQueue(config);
+  boss.on('error', (err) => logger.error({ err }, 'PTA queue error'));
+  await boss.start();
+  await boss.createQueue(PTA_QUEUE);
+  await boss.work<{ jobId: string }>(PTA_QUEUE, { pollingIntervalSeconds: 0.5 }, async (jobs) => {
+    for (const job of jobs) await runPtaJob(db, job.data.jobId);
+  });
+  return boss;
+}
+
+export function ptaQueue(config: Pick<AppConfig, 'databaseUrl'>, db: Db, logger: Logger): JobQueue {
+  return {
+    async send(queue, data) {
+      let boss = running.get(config.databaseUrl);
+      if (!boss) {
+        boss = start(config, db, logger);
+        running.set(config.databaseUrl, boss);
+        boss.catch(() => running.delete(config.databaseUrl));
+      }
+      await (await boss).send(queue, data);
+    },
+  };
+}
+
+/** Stops every PTA queue this process started (shutdown, tests). */
+export async function stopPtaQueues(): Promise<void> {
+  const all = [...running.values()];
+  running.clear();
+  await Promise.all(all.map(async (b) => (await b).stop({ graceful: true, wait: true })));
+}
