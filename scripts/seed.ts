@@ -2,7 +2,12 @@
  * Seeds the invented Kestrel Bay demo data into DATABASE_URL. Idempotent.
  * Demo data is for the demo only; tests create their own rows.
  */
-const seeders: Array<{ name: string; run: () => Promise<void> }> = [];
+const seeders: Array<{ name: string; run: () => Promise<void> }> = [
+  {
+    name: 'teaching cases',
+    run: async () => (await import('./seed/teaching-cases')).teachingCasesSeeder.run(),
+  },
+];
 
 async function main(): Promise<void> {
   if (seeders.length === 0) {

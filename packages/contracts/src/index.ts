@@ -15,3 +15,5 @@ export * from './engine';
 export * from './imports';
 export * from './caseload';
 export * from './plans';
+export * from './teaching';
+export * from './audit';

@@ -1,5 +1,6 @@
 import type { Router } from 'express';
 import type { AppDeps } from '../../../app';
+import { auditRoutes } from './audit';
 import { providerEventRoutes } from './auth-provider-events';
 import { courseRoutes } from './courses';
 import { drugModelRoutes } from './drug-models';
@@ -10,6 +11,7 @@ import { meRoutes } from './me';
 import { patientRoutes } from './patients';
 import { planRoutes } from './plans';
 import { reviewRoutes } from './reviews';
+import { teachingRoutes } from './teaching';
 import { userRoutes } from './users';
 
 /**
@@ -27,5 +29,7 @@ export function registerRoutes(api: Router, deps: AppDeps): void {
   api.use(engineRoutes(deps));
   api.use(planRoutes(deps));
   api.use(reviewRoutes(deps));
+  api.use(teachingRoutes(deps));
+  api.use(auditRoutes(deps));
   api.use(providerEventRoutes({ db: deps.db, secret: deps.config.idpEventSecret }));
 }
