@@ -28,6 +28,19 @@ const pinned: Record<string, AccessRule> = {
   'get /auth/callback': 'public',
   'post /auth/logout': 'public',
   'post /api/internal/identity-provider-events': 'public',
+  // Plans, sign-off, teaching and audit.
+  'post /api/courses/:courseId/plans': ['pharmacist', 'reviewer'],
+  'patch /api/plans/:id': ['pharmacist', 'reviewer'],
+  'post /api/plans/:id/submit': ['pharmacist', 'reviewer'],
+  'post /api/plans/:id/countersign': ['reviewer'],
+  'post /api/plans/:id/return': ['reviewer'],
+  'post /api/plans/:id/supersede': ['pharmacist', 'reviewer'],
+  'get /api/plans/:id/report.pdf': ['pharmacist', 'reviewer'],
+  'get /api/reviews': ['reviewer'],
+  'get /api/teaching/cases': ['pharmacist', 'reviewer', 'trainee'],
+  'post /api/teaching/cases/:id/practice-plans': ['pharmacist', 'reviewer', 'trainee'],
+  'post /api/teaching/cases': ['admin'],
+  'get /api/audit': ['admin'],
 };
 
 /** Paths with parameters get a plausible value; the status tells us about access, not data. */
