@@ -6,6 +6,8 @@ import { randomUUID } from 'node:crypto';
 import { startMailCatcher, type RunningMailCatcher } from '@ebbtide/mailcatcher';
 import { pino } from 'pino';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { mailOverdueRechecks } from '../src/domain/plans/recheck';
+import { planDeps } from '../src/entry-points/http/routes/plans';
 import { startMailWorker, type RunningMailWorker } from '../src/mail/mail-worker';
 import { createMailTransport } from '../src/mail/transport';
 import { signedInAgent, type SignedInClient } from './support/sign-in';
@@ -214,13 +216,11 @@ describe('POST /api/plans/:id/countersign', () => {
 
   it('when a checklist box is not ticked, then 400 names it', async () => {
     const plan = await submitted();
-    const res = await reviewer
-      .post(`/api/plans/${plan.id}/countersign`)
-      .send({
-        version: plan.version,
-        contentHash: plan.contentHash,
-        checklist: { ...CHECKLIST, sampleTiming: false },
-      });
+    const res = await reviewer.post(`/api/plans/${plan.id}/countersign`).send({
+      version: plan.version,
+      contentHash: plan.contentHash,
+      checklist: { ...CHECKLIST, sampleTiming: false },
+    });
     expect(res.status).toBe(400);
     expect(res.body.fieldErrors['checklist.sampleTiming']).toBeDefined();
   });
@@ -290,12 +290,10 @@ describe('countersigned plans', () => {
       .post(`/api/plans/${plan.id}/supersede`)
       .send({ version: plan.version });
     expect(again.status).toBe(409);
-    const edited = await pharmacist
-      .patch(`/api/plans/${next.body.id}`)
-      .send({
-        version: next.body.version,
-        regimen: { ...regimenBody(), rationale: undefined, doseMg: 1500 },
-      });
+    const edited = await pharmacist.patch(`/api/plans/${next.body.id}`).send({
+      version: next.body.version,
+      regimen: { ...regimenBody(), rationale: undefined, doseMg: 1500 },
+    });
     expect(edited.status, JSON.stringify(edited.body)).toBe(200);
     const sub = await pharmacist
       .post(`/api/plans/${next.body.id}/submit`)
@@ -437,5 +435,46 @@ describe('GET /api/reviews', () => {
     expect(item.waitingMinutes).toBeGreaterThanOrEqual(0);
     expect((await pharmacist.get('/api/reviews')).status).toBe(403);
     expect((await trainee.get('/api/reviews')).status).toBe(403);
+  });
+});
+
+describe('re-check overdue mail', () => {
+  it('when a countersigned plan passes its re-check time, then its author is mailed exactly once', async () => {
+    catcher.clear();
+    const { courseId } = await realCourse(pharmacist);
+    const created = await pharmacist
+      .post(`/api/courses/${courseId}/plans`)
+      .send(regimenBody({ recheckAt: new Date(Date.now() + 6 * 3_600_000).toISOString() }));
+    const sub = await pharmacist
+      .post(`/api/plans/${created.body.id}/submit`)
+      .send({ version: created.body.version });
+    await reviewer
+      .post(`/api/plans/${created.body.id}/countersign`)
+      .send({ version: sub.body.version, contentHash: sub.body.contentHash, checklist: CHECKLIST });
+    const deps = planDeps({
+      ...world,
+      config: (world.app.locals as { config: never }).config,
+      logger: pino({ level: 'silent' }),
+      mailQueueName: QUEUE,
+    } as never);
+    const later = new Date(Date.now() + 7 * 3_600_000);
+    const first = await mailOverdueRechecks(world.db, deps, later);
+    const second = await mailOverdueRechecks(world.db, deps, later);
+    expect(first).toBeGreaterThanOrEqual(1);
+    expect(second).toBe(0);
+    const rows = await world
+      .db('mail_outbox')
+      .where({ idempotency_key: `plan:${created.body.id}:recheck-overdue:v1` });
+    expect(rows).toHaveLength(1);
+    expect(rows[0].to).toEqual([pharmacist.user.email]);
+    const mail = await catcher.waitForMessage(
+      (m) => m.text.includes(created.body.id) && /re-check/.test(m.subject),
+      15_000,
+    );
+    expect(mail.to).toEqual([pharmacist.user.email]);
+    // The sweep stays correct after the content was re-checked: the plan is not mailed again.
+    expect((await world.db('plans').where({ id: created.body.id }).first()).state).toBe(
+      'countersigned',
+    );
   });
 });

@@ -37,6 +37,7 @@ import {
   isFresh,
   type SigningAuthentication,
 } from '../../../domain/plans/signing';
+import { mailOverdueRechecks } from '../../../domain/plans/recheck';
 import { planChanges } from '../../../domain/reviews/changes';
 import { planReport } from '../../../domain/plans/report';
 import { AppError } from '../../../lib/app-error';
@@ -325,4 +326,24 @@ export function planRoutes(
   });
 
   return router;
+}
+
+/**
+ * Starts the periodic re-check sweep (every `intervalSeconds`): each plan past its re-check time
+ * mails its author once. For the process that runs the background workers; returns a stop function.
+ */
+export function startRecheckSweep(deps: PlanAppDeps, intervalSeconds = 300): () => void {
+  const pd = planDeps(deps);
+  let running = false;
+  const timer = setInterval(() => {
+    if (running) return;
+    running = true;
+    mailOverdueRechecks(deps.db, pd)
+      .catch((err: unknown) => deps.logger.error({ err }, 're-check sweep failed'))
+      .finally(() => {
+        running = false;
+      });
+  }, intervalSeconds * 1000);
+  timer.unref();
+  return () => clearInterval(timer);
 }
