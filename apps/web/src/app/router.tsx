@@ -1,4 +1,5 @@
-import { createBrowserRouter, RouterProvider } from 'react-router-dom';
+import { lazy, Suspense } from 'react';
+import { createBrowserRouter, Outlet, RouterProvider } from 'react-router-dom';
 import { AppShell } from '../components/layout/app-shell';
 import { ScreenPending } from '../components/layout/screen-pending';
 import { paths } from '../config/paths';
@@ -8,6 +9,19 @@ import { UsersAdmin } from '../features/auth/components/users-admin';
 import { SCREEN_ACCESS } from '../features/auth/permissions';
 import { StatusPage } from '../features/health/components/status-page';
 
+const Caseload = lazy(() =>
+  import('../features/caseload/components/caseload-screen').then((m) => ({
+    default: m.CaseloadScreen,
+  })),
+);
+function LazyCaseload() {
+  return (
+    <Suspense fallback={<p className="text-slate-600">Loading the caseload…</p>}>
+      <Caseload />
+    </Suspense>
+  );
+}
+
 const router = createBrowserRouter([
   {
     path: '/',
@@ -15,19 +29,77 @@ const router = createBrowserRouter([
     children: [
       {
         index: true,
-        element: (
-          <HomeForRole
-            clinical={<ScreenPending title="Caseload" arrives="it comes with casework." />}
-          />
-        ),
+        element: <HomeForRole clinical={<LazyCaseload />} />,
       },
       {
-        path: paths.patients.path,
         element: (
           <RequireRole allow={SCREEN_ACCESS.patients}>
-            <ScreenPending title="Patients" arrives="it comes with casework." />
+            <Outlet />
           </RequireRole>
         ),
+        children: [
+          {
+            path: paths.patients.path,
+            lazy: () =>
+              import('../features/patients/components/patients-screen').then((m) => ({
+                Component: m.PatientsScreen,
+              })),
+          },
+          {
+            path: paths.patient.path,
+            lazy: () =>
+              import('../features/patients/components/patient-screen').then((m) => ({
+                Component: m.PatientScreen,
+              })),
+          },
+        ],
+      },
+      {
+        // Courses: clinical staff, and trainees for teaching cases (the API scopes what they get).
+        path: paths.course.path,
+        element: (
+          <RequireRole allow={SCREEN_ACCESS.teaching}>
+            <Outlet />
+          </RequireRole>
+        ),
+        children: [
+          {
+            lazy: () =>
+              import('../features/courses/components/course-layout').then((m) => ({
+                Component: m.CourseLayout,
+              })),
+            children: [
+              {
+                index: true,
+                lazy: () =>
+                  import('../features/courses/components/course-record').then((m) => ({
+                    Component: m.CourseRecord,
+                  })),
+              },
+              {
+                path: 'fit',
+                lazy: () =>
+                  import('../features/fit/components/fit-screen').then((m) => ({
+                    Component: m.FitScreen,
+                  })),
+              },
+              {
+                path: 'regimens',
+                lazy: () =>
+                  import('../features/regimens/components/regimen-explorer').then((m) => ({
+                    Component: m.RegimenExplorer,
+                  })),
+              },
+              {
+                path: 'import',
+                lazy: () =>
+                  import('../features/imports/components/import-screen').then((m) => ({
+                    Component: m.ImportScreen,
+                  })),
+              },
+            ],
+          },
+        ],
       },
       {
         path: paths.reviews.path,
