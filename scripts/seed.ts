@@ -4,6 +4,10 @@
  */
 const seeders: Array<{ name: string; run: () => Promise<void> }> = [
   {
+    name: 'Kestrel Bay patients',
+    run: async () => (await import('./seed/kestrel-bay')).kestrelBaySeeder.run(),
+  },
+  {
     name: 'teaching cases',
     run: async () => (await import('./seed/teaching-cases')).teachingCasesSeeder.run(),
   },
