@@ -94,12 +94,10 @@ describe('POST /api/courses/:id/simulate', () => {
     // Source: pk-reference A7, identity at steady state for linear PK: AUC24,ss = F·daily dose / CL
     // (Gibaldi M, Perrier D. Pharmacokinetics, 2nd ed., 1982 — from memory).
     const { course } = await vancomycinCase({ levels: false });
-    const res = await pharmacist
-      .post(`/api/courses/${course.id}/simulate`)
-      .send({
-        parameters: 'population',
-        regimen: { doseMg: 1000, intervalH: 12, infusionH: 1, count: 40 },
-      });
+    const res = await pharmacist.post(`/api/courses/${course.id}/simulate`).send({
+      parameters: 'population',
+      regimen: { doseMg: 1000, intervalH: 12, infusionH: 1, count: 40 },
+    });
     expect(res.status).toBe(200);
     const expected = 2000 / res.body.parameters.CL;
     expect(Math.abs(res.body.exposure.auc24 - expected) / expected).toBeLessThan(0.01);

@@ -5,7 +5,7 @@ import { sampleKindSchema } from './levels';
 
 /**
  * GET /api/caseload — the signed-in pharmacist's active courses and what is due.
- * (Plans and their countersignature arrive in a later issue; only what exists now is listed.)
+ * Plans: submitted (awaiting countersignature), returned, or past their re-check time.
  */
 export const caseloadQuerySchema = listQuerySchema(
   ['due', 'patient', 'ward', 'drug'] as const,
@@ -25,6 +25,9 @@ export const dueItemSchema = z.object({
     'renal-function-unstable',
     'no-recent-weight',
     'level-needs-review',
+    'plan-awaiting-countersignature',
+    'plan-returned',
+    'plan-recheck-due',
   ]),
   message: z.string(),
   dueAt: isoDateTimeSchema.nullable(),

@@ -2,6 +2,7 @@ import type { Router } from 'express';
 import type { AppDeps } from '../../../app';
 import { auditRoutes } from './audit';
 import { providerEventRoutes } from './auth-provider-events';
+import { caseloadRoutes } from './caseload';
 import { courseRoutes } from './courses';
 import { drugModelRoutes } from './drug-models';
 import { engineRoutes } from './engine';
@@ -27,6 +28,7 @@ export function registerRoutes(api: Router, deps: AppDeps): void {
   api.use(drugModelRoutes(deps.db));
   api.use(importRoutes(deps.db));
   api.use(engineRoutes(deps));
+  api.use(caseloadRoutes(deps.db));
   api.use(planRoutes(deps));
   api.use(reviewRoutes(deps));
   api.use(teachingRoutes(deps));
