@@ -65,11 +65,13 @@ describe('GET /api/caseload', () => {
       .post(`/api/patients/${b.id}/covariates`)
       .send({ kind: 'serum-creatinine', value: 130, unit: 'umol/L', observedAt: hoursAgo(4) })
       .expect(201);
-    const c = await createRealPatient(colleague);
+    const ward = `Ward ${Date.now().toString(36)}`;
+    const c = await createRealPatient(colleague, { ward });
     const others = await createCourse(colleague, c.id);
     // Act
     const mine = await pharmacist.get('/api/caseload?pageSize=100');
-    const all = await pharmacist.get('/api/caseload?scope=all&pageSize=100');
+    const mineInWard = await pharmacist.get(`/api/caseload?ward=${encodeURIComponent(ward)}`);
+    const all = await pharmacist.get(`/api/caseload?scope=all&ward=${encodeURIComponent(ward)}`);
     // Assert
     expect(mine.status).toBe(200);
     const byId = new Map<string, Item>(mine.body.items.map((i: Item) => [i.courseId, i]));
@@ -83,7 +85,8 @@ describe('GET /api/caseload', () => {
     );
     expect(second.lastLevel?.echo).toBe('10.4 µmol/L (15.07 mg/L)');
     expect(byId.has(others.id)).toBe(false);
-    expect(all.body.items.map((i: Item) => i.courseId)).toContain(others.id);
+    expect(all.body.items.map((i: Item) => i.courseId)).toEqual([others.id]);
+    expect(mineInWard.body.total).toBe(0);
   });
 
   it('when a trainee opens the caseload, then no identifiable patient appears', async () => {

@@ -1,5 +1,6 @@
 import type { Warning } from '@ebbtide/contracts';
 import {
+  assessLevels,
   EngineError,
   populationPriorFromLibrary,
   type Dose,
@@ -179,6 +180,29 @@ export async function loadEngineCase(
     warnings.push(...built.warnings);
   } catch (error) {
     engineRefused(error);
+  }
+  // Level timing read against the dose history, so every engine answer carries the timing pitfalls.
+  if (levels.length > 0 && doses.length > 0) {
+    const t = prior.typical;
+    const halfLife = t.CL && t.V1 ? (Math.LN2 * (t.V1 + (t.V2 ?? 0))) / t.CL : undefined;
+    try {
+      const assessed = assessLevels({ doses, levels, halfLife, drug: ctx.course.drug });
+      if (assessed.some((a) => levels[a.level]?.kind === 'trough' && a.steadyState === false)) {
+        warnings.push({
+          code: 'non-steady-state-trough',
+          message:
+            'A trough was drawn before steady state: do not read it as a steady-state trough unless a Bayesian fit is used.',
+        });
+      }
+      if (assessed.some((a) => a.earlyTrough)) {
+        warnings.push({
+          code: 'early-trough',
+          message: 'A trough was drawn early, well before the next dose was due.',
+        });
+      }
+    } catch {
+      // The level-validity endpoint reports the engine's refusal itself.
+    }
   }
   if (levels.length === 1) {
     warnings.push({

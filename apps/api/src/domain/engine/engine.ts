@@ -415,18 +415,6 @@ export async function levelValidity(
     engineRefused(error);
   }
   const warnings = [...c.warnings];
-  if (assessed.some((a) => c.levels[a.level]?.kind === 'trough' && a.steadyState === false)) {
-    warnings.push({
-      code: 'non-steady-state-trough',
-      message:
-        'A trough was drawn before steady state: do not read it as a steady-state trough unless a Bayesian fit is used.',
-    });
-  }
-  if (assessed.some((a) => a.earlyTrough))
-    warnings.push({
-      code: 'early-trough',
-      message: 'A trough was drawn early, well before the next dose.',
-    });
   return {
     model: modelRef(c),
     warnings: uniqueWarnings(warnings),
