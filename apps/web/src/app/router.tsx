@@ -97,6 +97,13 @@ const router = createBrowserRouter([
                     Component: m.ImportScreen,
                   })),
               },
+              {
+                path: 'plans/:planId',
+                lazy: () =>
+                  import('../features/plans/components/plan-screen').then((m) => ({
+                    Component: m.PlanScreen,
+                  })),
+              },
             ],
           },
         ],
@@ -105,17 +112,49 @@ const router = createBrowserRouter([
         path: paths.reviews.path,
         element: (
           <RequireRole allow={SCREEN_ACCESS.reviews}>
-            <ScreenPending title="Review queue" arrives="it comes with plans and sign-off." />
+            <Outlet />
           </RequireRole>
         ),
+        children: [
+          {
+            index: true,
+            lazy: () =>
+              import('../features/reviews/components/review-queue').then((m) => ({
+                Component: m.ReviewQueue,
+              })),
+          },
+          {
+            path: ':planId',
+            lazy: () =>
+              import('../features/reviews/components/countersign-screen').then((m) => ({
+                Component: m.CountersignScreen,
+              })),
+          },
+        ],
       },
       {
         path: paths.teaching.path,
         element: (
-          <RequireRole allow={SCREEN_ACCESS.teaching}>
-            <ScreenPending title="Teaching cases" arrives="it comes with plans and sign-off." />
+          <RequireRole allow={[...SCREEN_ACCESS.teaching, 'admin']}>
+            <Outlet />
           </RequireRole>
         ),
+        children: [
+          {
+            index: true,
+            lazy: () =>
+              import('../features/teaching/components/teaching-list').then((m) => ({
+                Component: m.TeachingList,
+              })),
+          },
+          {
+            path: ':caseId',
+            lazy: () =>
+              import('../features/teaching/components/teaching-case-screen').then((m) => ({
+                Component: m.TeachingCaseScreen,
+              })),
+          },
+        ],
       },
       {
         path: paths.drugModels.path,
@@ -129,9 +168,18 @@ const router = createBrowserRouter([
         path: paths.audit.path,
         element: (
           <RequireRole allow={SCREEN_ACCESS.audit}>
-            <ScreenPending title="Audit trail" arrives="it comes with plans and sign-off." />
+            <Outlet />
           </RequireRole>
         ),
+        children: [
+          {
+            index: true,
+            lazy: () =>
+              import('../features/audit/components/audit-screen').then((m) => ({
+                Component: m.AuditScreen,
+              })),
+          },
+        ],
       },
       {
         path: paths.users.path,
