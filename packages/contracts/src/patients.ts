@@ -19,7 +19,7 @@ const ward = z.string().trim().min(1).max(60);
 
 const realPatientCreate = z
   .object({
-    isTeaching: z.literal(false),
+    isTeaching: z.literal(false).optional(),
     mrn,
     givenName: name,
     familyName: name,
@@ -40,10 +40,10 @@ const teachingPatientCreate = z
   .strict();
 
 /** POST /api/patients — `isTeaching` defaults to false (a real patient). */
-export const patientCreateSchema = z.preprocess(
-  (v) => (v && typeof v === 'object' && !('isTeaching' in v) ? { ...v, isTeaching: false } : v),
-  z.discriminatedUnion('isTeaching', [realPatientCreate, teachingPatientCreate]),
-);
+export const patientCreateSchema = z.discriminatedUnion('isTeaching', [
+  realPatientCreate,
+  teachingPatientCreate,
+]);
 export type PatientCreate = z.infer<typeof patientCreateSchema>;
 
 /** PATCH /api/patients/:id — the fields to change plus the version last read. */

@@ -70,7 +70,7 @@ export async function createPatient(
   input: PatientCreate,
   now = new Date(),
 ): Promise<Patient> {
-  assertMayWrite(actor, input.isTeaching);
+  assertMayWrite(actor, input.isTeaching === true);
   const columns: PatientColumns = input.isTeaching
     ? {
         is_teaching: true,
