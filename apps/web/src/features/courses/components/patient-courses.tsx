@@ -33,11 +33,8 @@ export function PatientCourses({ patientId }: { patientId: string }) {
     <ul className="flex flex-col gap-1 text-sm">
       {courses.data.items.map((c) => (
         <li key={c.id} className="rounded border border-slate-200 px-2 py-1">
-          <Link
-            to={paths.course.getHref(c.id)}
-            className="font-medium capitalize text-tide-800 underline"
-          >
-            {c.drug} · {c.indication}
+          <Link to={paths.course.getHref(c.id)} className="font-medium text-tide-800 underline">
+            <span className="capitalize">{c.drug}</span> · {c.indication}
           </Link>
           <div className="text-xs text-slate-600">
             {c.status} · target {describeTarget(c.target)} · model {c.modelId} v{c.modelVersion}

@@ -62,7 +62,10 @@ export function TimelineChart({
   return (
     <figure aria-label="Timeline of doses and levels">
       <ResponsiveContainer width="100%" height={height}>
-        <ComposedChart margin={{ top: 10, right: 16, bottom: 4, left: 0 }}>
+        <ComposedChart
+          data={[{ hour: Math.floor(minHour) }, { hour: Math.ceil(maxHour + 2) }]}
+          margin={{ top: 10, right: 16, bottom: 4, left: 0 }}
+        >
           <CartesianGrid stroke="#e2e8f0" strokeDasharray="3 3" />
           <XAxis
             type="number"

@@ -109,7 +109,9 @@ function ParametersTable({
   compare?: FitResponse | undefined;
   compareLabel?: string;
 }) {
-  const names = Object.keys(fit.parameters);
+  const order = Object.keys(PARAMETER_LABELS);
+  const rank = (n: string) => (order.includes(n) ? order.indexOf(n) : order.length);
+  const names = Object.keys(fit.parameters).sort((a, b) => rank(a) - rank(b));
   return (
     <table className="w-full text-left text-sm">
       <thead className="border-b border-slate-200 text-xs text-slate-600 [&_th]:py-1 [&_th]:pr-3">

@@ -8,6 +8,13 @@ import { useDerivedValues } from '../api/get-derived-values';
 
 type Value = NonNullable<DerivedValues['idealBodyWeight']>;
 
+/** UCUM codes as people read them. */
+const displayUnit = (ucum: string) =>
+  ucum
+    .replace('{1.73_m2}', '1.73 m²')
+    .replace(/\bm2\b/, 'm²')
+    .replace('umol', 'µmol');
+
 const WEIGHT_USED = {
   total: 'total body weight',
   ideal: 'ideal body weight',
@@ -30,7 +37,7 @@ function DerivedCell({
         {value ? (
           <>
             <span className="text-base font-semibold text-slate-900">
-              {formatNumber(value.value, 1)} {value.unit}
+              {formatNumber(value.value, 1)} {displayUnit(value.unit)}
             </span>
             {extra && <div className="text-xs text-slate-600">{extra}</div>}
             <Disclosure summary="Formula">

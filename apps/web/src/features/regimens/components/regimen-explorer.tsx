@@ -1,4 +1,5 @@
 import { useMemo, useState } from 'react';
+import { Link } from 'react-router-dom';
 import {
   CartesianGrid,
   Legend,
@@ -17,6 +18,7 @@ import { Panel } from '../../../components/ui/panel';
 import { ResultCaution } from '../../../components/ui/result-caution';
 import { Empty, ErrorMessage, Loading } from '../../../components/ui/states';
 import { Warnings } from '../../../components/ui/warnings';
+import { paths } from '../../../config/paths';
 import {
   echoDoseMg,
   echoHours,
@@ -531,7 +533,10 @@ export function RegimenExplorer() {
                   role="status"
                   className="mt-2 rounded border border-tide-600 bg-tide-50 px-3 py-2 text-sm text-tide-900"
                 >
-                  Draft plan {plan.planNumber} started ({plan.state}): {echoRegimen(current)}.
+                  Draft plan {plan.planNumber} started ({plan.state}): {echoRegimen(current)}.{' '}
+                  <Link to={paths.plan.getHref(course.id, plan.id)} className="underline">
+                    Open the draft plan
+                  </Link>
                 </p>
               )}
             </div>
