@@ -238,6 +238,23 @@ describe('POST /api/courses/:id/regimens', () => {
   });
 });
 
+describe('POST /api/courses/:id/sampling', () => {
+  it('when asking when to draw after a planned regimen, then ranked draw times with predicted values and the caution come back', async () => {
+    const { course } = await vancomycinCase();
+    const res = await pharmacist
+      .post(`/api/courses/${course.id}/sampling`)
+      .send({ regimen: { doseMg: 1250, intervalH: 12, infusionH: 1.5, count: 4 } });
+    expect(res.status).toBe(200);
+    expect(res.body.caution).toMatch(CAUTION_PATTERN);
+    expect(res.body.bestPair.draws).toHaveLength(2);
+    for (const d of res.body.bestPair.draws) {
+      expect(d.hoursAfterInfusionEnd).toBeGreaterThanOrEqual(1 - 1e-9);
+      expect(Date.parse(d.at)).toBeGreaterThan(Date.now());
+    }
+    expect(res.body.bestPair.sdLogAuc24).toBeLessThanOrEqual(res.body.currentSdLogAuc24);
+  });
+});
+
 describe('POST /api/courses/:id/pta and GET /api/jobs/:id', () => {
   it('when a PTA run is requested, then it is accepted as a job whose progress can be polled to a result', async () => {
     // Arrange

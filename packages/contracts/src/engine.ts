@@ -208,3 +208,40 @@ export const jobSchema = z.object({
   updatedAt: isoDateTimeSchema,
 });
 export type Job = z.infer<typeof jobSchema>;
+
+/** POST /api/courses/:id/sampling — when to draw the next levels after a planned regimen. */
+export const samplingRequestSchema = z
+  .object({
+    regimen: regimenSchema,
+    parameters: z.enum(['population', 'map']).default('map'),
+    /** Which planned maintenance dose (1-based) to sample after; at most count − 1, default the last but one. */
+    afterDose: z.number().int().min(1).max(200).optional(),
+  })
+  .strict();
+export type SamplingRequest = z.infer<typeof samplingRequestSchema>;
+
+const drawSchema = z.object({
+  hour: z.number(),
+  at: isoDateTimeSchema.nullable(),
+  hoursAfterDoseStart: z.number(),
+  hoursAfterInfusionEnd: z.number(),
+  predictedMgL: z.number(),
+});
+const designSchema = z.object({
+  draws: z.array(drawSchema),
+  /** Predicted SD of ln AUC24 after these draws (≈ CV of AUC24). */
+  sdLogAuc24: z.number(),
+  /** 1 − SD after / SD now. */
+  reduction: z.number(),
+});
+export const samplingResponseSchema = engineMetaSchema.extend({
+  currentSdLogAuc24: z.number(),
+  /** The conventional pair (post-distribution peak and pre-dose trough). */
+  conventional: designSchema,
+  bestSingle: designSchema,
+  bestPair: designSchema,
+  alternatives: z.array(designSchema),
+  /** How much a second level adds to the best single one. */
+  valueOfSecondLevel: z.number(),
+});
+export type SamplingResponse = z.infer<typeof samplingResponseSchema>;

@@ -5,6 +5,8 @@ import type {
   Regimen,
   RegimenSearchRequest,
   RegimenSearchResponse,
+  SamplingRequest,
+  SamplingResponse,
   SimulateRequest,
   SimulateResponse,
   Target,
@@ -18,7 +20,9 @@ import {
   populationPrediction,
   regimenPresets,
   simulate,
+  suggestSamplingTimes,
   twoLevelEstimate,
+  type DesignValue,
   type Dose,
   type ExposureTarget,
   type MapFitResult,
@@ -526,3 +530,102 @@ export async function searchRegimens(
 }
 
 export { map as fitMapFor, parametersFor };
+
+/** Suggested draw times after a planned regimen, ranked by how much they shrink the AUC24 uncertainty. */
+export async function suggestSampling(
+  db: Conn,
+  actor: CaseworkActor,
+  courseId: string,
+  req: SamplingRequest,
+): Promise<SamplingResponse> {
+  const c = await loadEngineCase(db, actor, courseId);
+  if (c.structure.elimination !== 'linear') {
+    throw new AppError(
+      'engine-refused',
+      'Sampling suggestions cover linear models; not Michaelis-Menten drugs (phenytoin).',
+      422,
+    );
+  }
+  const which = req.parameters === 'map' && c.levels.length === 0 ? 'population' : req.parameters;
+  const warnings: Warning[] = [];
+  let parameters: PkParameters;
+  let estimated: string[];
+  let covarianceEta: number[][];
+  if (which === 'map') {
+    const fit = map(c);
+    if (!fit.covarianceEta)
+      throw new AppError(
+        'engine-refused',
+        'The fit gave no posterior covariance: ask with population parameters.',
+        422,
+      );
+    parameters = fit.parameters;
+    estimated = fit.estimated;
+    covarianceEta = fit.covarianceEta;
+    warnings.push(...mapWarnings(fit));
+  } else {
+    if (which !== req.parameters)
+      warnings.push({
+        code: 'no-levels',
+        message: 'No levels yet: suggestions use the population prior.',
+      });
+    parameters = { ...c.prior.typical } as unknown as PkParameters;
+    estimated = Object.keys(c.prior.variability).filter((k) => (c.prior.variability[k] ?? 0) > 0);
+    covarianceEta = estimated.map((a, i) =>
+      estimated.map((_, j) => (i === j ? (c.prior.variability[a] ?? 0) ** 2 : 0)),
+    );
+  }
+  const planned = regimenDoses(c, req.regimen);
+  const doses = [...c.doses, ...planned.doses].sort((a, b) => a.time - b.time);
+  if (req.regimen.count < 2) {
+    throw new AppError(
+      'validation-failed',
+      'Plan at least two doses: a draw is timed within a dosing interval',
+      400,
+      {
+        fieldErrors: { 'regimen.count': ['at least 2 for sampling suggestions'] },
+      },
+    );
+  }
+  // The sampled dose must be followed by another one (its interval needs an end); default the last but one.
+  const nth = Math.min(req.afterDose ?? req.regimen.count - 1, req.regimen.count - 1);
+  const target = planned.doses[nth - 1 + (req.regimen.loadingDoseMg ? 1 : 0)] as Dose;
+  const doseIndex = doses.indexOf(target);
+  let s;
+  try {
+    s = suggestSamplingTimes({
+      model: c.structure,
+      parameters,
+      estimated,
+      covarianceEta,
+      residualError: c.prior.residualError,
+      doses,
+      doseIndex,
+      options: { distributionPhaseHours: c.ctx.course.drug === 'vancomycin' ? 1 : 0.5 },
+    });
+  } catch (error) {
+    engineRefused(error);
+  }
+  const design = (d: DesignValue) => ({
+    draws: d.draws.map((x) => ({
+      hour: x.time,
+      at: atOf(c.referenceAt, x.time),
+      hoursAfterDoseStart: x.hoursAfterDoseStart,
+      hoursAfterInfusionEnd: x.hoursAfterInfusionEnd,
+      predictedMgL: x.predicted,
+    })),
+    sdLogAuc24: d.sdLogAuc24,
+    reduction: d.reduction,
+  });
+  return {
+    model: modelRef(c),
+    warnings: uniqueWarnings([...c.warnings, ...warnings, ...s.warnings]),
+    caution: CAUTION,
+    currentSdLogAuc24: s.currentSdLogAuc24,
+    conventional: design(s.conventional),
+    bestSingle: design(s.bestSingle),
+    bestPair: design(s.bestPair),
+    alternatives: s.alternatives.map(design),
+    valueOfSecondLevel: s.valueOfSecondLevel,
+  };
+}

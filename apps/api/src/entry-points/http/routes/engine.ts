@@ -4,6 +4,7 @@ import {
   idParamsSchema,
   ptaRequestSchema,
   regimenSearchRequestSchema,
+  samplingRequestSchema,
   simulateRequestSchema,
 } from '@ebbtide/contracts';
 import type { AppDeps } from '../../../app';
@@ -12,6 +13,7 @@ import {
   levelValidity,
   searchRegimens,
   simulateCourse,
+  suggestSampling,
 } from '../../../domain/engine/engine';
 import { getJob, requestPta } from '../../../domain/jobs/pta';
 import { ptaQueue } from '../../../jobs/pta-queue';
@@ -64,6 +66,16 @@ export function engineRoutes(deps: Pick<AppDeps, 'db' | 'config' | 'logger'>): R
       const { id } = parseRequest(req, 'params', idParamsSchema);
       const body = parseRequest(req, 'body', regimenSearchRequestSchema);
       res.json(await searchRegimens(db, requireActor(req), id, body));
+    },
+  });
+  defineRoute(router, {
+    method: 'post',
+    path: '/courses/:id/sampling',
+    allow: TEACHING,
+    handler: async (req, res) => {
+      const { id } = parseRequest(req, 'params', idParamsSchema);
+      const body = parseRequest(req, 'body', samplingRequestSchema);
+      res.json(await suggestSampling(db, requireActor(req), id, body));
     },
   });
   defineRoute(router, {
