@@ -35,6 +35,9 @@ function DueBadge({ item }: { item: DueItem }) {
   );
 }
 
+/** The demo hospital's wards; any other ward on the caseload is added. */
+const KNOWN_WARDS = ['4 North', 'ICU', 'Renal unit', 'Paediatrics'];
+
 const DRUGS = ['vancomycin', 'gentamicin', 'tobramycin', 'amikacin', 'phenytoin'] as const;
 
 export function CaseloadScreen() {
@@ -56,9 +59,13 @@ export function CaseloadScreen() {
   const wards = useMemo(
     () =>
       Array.from(
-        new Set((caseload.data?.items ?? []).map((i) => i.patient.ward).filter(Boolean)),
-      ) as string[],
-    [caseload.data],
+        new Set([
+          ...KNOWN_WARDS,
+          ...((caseload.data?.items ?? []).map((i) => i.patient.ward).filter(Boolean) as string[]),
+          ...(ward ? [ward] : []),
+        ]),
+      ),
+    [caseload.data, ward],
   );
 
   const sortHeader = (key: typeof sort, label: string) => (
