@@ -104,12 +104,10 @@ describe('POST /api/teaching/cases/:id/practice-plans', () => {
   });
 
   it('when the regimen is invalid, then 400 with field errors', async () => {
-    const res = await trainee
-      .post(`/api/teaching/cases/${caseIds[0]}/practice-plans`)
-      .send({
-        regimen: { doseMg: 0, intervalH: 12, infusionH: 1, startHour: 10 },
-        pitfallsFlagged: ['nope'],
-      });
+    const res = await trainee.post(`/api/teaching/cases/${caseIds[0]}/practice-plans`).send({
+      regimen: { doseMg: 0, intervalH: 12, infusionH: 1, startHour: 10 },
+      pitfallsFlagged: ['nope'],
+    });
     expect(res.status).toBe(400);
     expect(Object.keys(res.body.fieldErrors)).toEqual(
       expect.arrayContaining(['regimen.doseMg', 'pitfallsFlagged.0']),
