@@ -5,7 +5,9 @@
 const seeders: Array<{ name: string; run: () => Promise<void> }> = [
   {
     name: 'Kestrel Bay patients',
-    run: async () => (await import('./seed/kestrel-bay')).kestrelBaySeeder.run(),
+    run: async () => {
+      await (await import('./seed/kestrel-bay')).kestrelBaySeeder.run();
+    },
   },
   {
     name: 'teaching cases',

@@ -622,8 +622,12 @@ async function seedPatient(
 
 export const kestrelBaySeeder = {
   name: 'Kestrel Bay patients, courses, doses and levels',
-  async run(): Promise<void> {
-    const config = loadConfig();
+  /** `databaseUrl` defaults to DATABASE_URL; returns how many patients were created. */
+  async run(options: { databaseUrl?: string; now?: Date; quiet?: boolean } = {}): Promise<number> {
+    const config = loadConfig(
+      process.env,
+      options.databaseUrl ? { databaseUrl: options.databaseUrl } : {},
+    );
     const db = createDb(config.databaseUrl);
     try {
       await syncEngineLibrary(db, drugModelLibrary);
@@ -631,13 +635,16 @@ export const kestrelBaySeeder = {
         pharmacist: await ensureUser(db, config.oidcIssuer, DEMO_PHARMACIST),
         reviewer: await ensureUser(db, config.oidcIssuer, DEMO_REVIEWER),
       };
-      const now = new Date();
+      const now = options.now ?? new Date();
       let created = 0;
       for (const p of REAL) if (await seedPatient(db, p, false, owners, now)) created++;
       for (const p of TEACHING) if (await seedPatient(db, p, true, owners, now)) created++;
-      console.log(
-        `Kestrel Bay: ${created} patient(s) created, ${REAL.length + TEACHING.length - created} already present`,
-      );
+      if (!options.quiet) {
+        console.log(
+          `Kestrel Bay: ${created} patient(s) created, ${REAL.length + TEACHING.length - created} already present`,
+        );
+      }
+      return created;
     } finally {
       await db.destroy();
     }
