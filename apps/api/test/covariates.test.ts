@@ -240,6 +240,37 @@ describe('GET /api/patients/:id/derived', () => {
     expect(res.body.egfr.unit).toBe('mL/min/{1.73_m2}');
   });
 
+  it('when the patient is obese, then CrCl uses adjusted body weight and eGFR matches the CKD-EPI 2021 worked example', async () => {
+    // Arrange: female, 55 y, 177.8 cm, 120 kg, SCr 0.9 mg/dL.
+    const birth = new Date();
+    birth.setUTCFullYear(birth.getUTCFullYear() - 55);
+    birth.setUTCDate(birth.getUTCDate() - 10);
+    const p = await createRealPatient(pharmacist, {
+      sex: 'female',
+      birthDate: birth.toISOString().slice(0, 10),
+    });
+    const post = (body: object) =>
+      pharmacist
+        .post(`/api/patients/${p.id}/covariates`)
+        .send({ observedAt: hoursAgo(6), ...body })
+        .expect(201);
+    await post({ kind: 'weight', value: 120, unit: 'kg', weightSource: 'measured' });
+    await post({ kind: 'height', value: 177.8, unit: 'cm' });
+    await post({ kind: 'serum-creatinine', value: 0.9, unit: 'mg/dL' });
+    // Act
+    const res = await pharmacist.get(`/api/patients/${p.id}/derived`);
+    // Assert
+    // Source: Devine BJ. Drug Intell Clin Pharm 1974;8:650-655 — female 70 in -> 68.5 kg (pk-reference C).
+    expect(res.body.idealBodyWeight.value).toBeCloseTo(68.5, 6);
+    // AdjBW = IBW + 0.4 (TBW − IBW) = 68.5 + 0.4 × 51.5 = 89.1 kg (the widely taught 0.4 factor).
+    expect(res.body.creatinineClearance).toMatchObject({ weightUsed: 'adjusted' });
+    expect(res.body.creatinineClearance.weightKg).toBeCloseTo(89.1, 6);
+    // Source: Cockcroft DW, Gault MH. Nephron 1976;16:31-41 — (140 − 55) × 89.1 / (72 × 0.9) × 0.85.
+    expect(res.body.creatinineClearance.value).toBeCloseTo((85 * 89.1 * 0.85) / (72 * 0.9), 6);
+    // Source: Inker LA et al. N Engl J Med 2021;385:1737-49 — SCr 0.9, 55 F -> 75.4988 (pk-reference C).
+    expect(res.body.egfr.value).toBeCloseTo(75.4988, 3);
+  });
+
   it('when creatinine rose by more than 26.5 µmol/L within 48 h, then it warns of unstable renal function', async () => {
     const p = await createRealPatient(pharmacist);
     await pharmacist
