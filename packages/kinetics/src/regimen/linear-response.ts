@@ -175,3 +175,119 @@ export function steadyStateConcentration(
   }
   return c;
 }
+
+/**
+ * Steady-state concentration (mg/L) `s` h (0 ≤ s ≤ τ) after an oral/IM dose `amount` (mg) repeated every τ,
+ * first-order absorption with F, ka and lag (Gibaldi M, Perrier D. Pharmacokinetics, 2nd ed., 1982, ch. 3;
+ * pk-reference A4), term by term over the exponentials of a linear model:
+ *   C_ss(t) = F·D·Σ_i A_i·ka/(ka − λ_i)·[e^(−λ_i t′)/(1 − e^(−λ_i τ)) − e^(−ka t′)/(1 − e^(−ka τ))],
+ * with t′ = (s − tlag) taken modulo τ (A4: "with a lag time, replace t by t − tlag, taken modulo τ").
+ * At ka = λ_i (the singular case of A3) the term is the limit of the geometric sum of the single-dose limit
+ * ka·t·e^(−λt): F·D·A_i·ka·e^(−λ t′)·[t′/(1 − q) + τ·q/(1 − q)²], q = e^(−λτ) (derived from A3's limit).
+ * s = 0 and s = τ give the same value: the pre-dose trough.
+ */
+export function steadyStateOralConcentration(
+  m: ExponentialModel,
+  amount: number,
+  tau: number,
+  s: number,
+): number {
+  let t = (s - m.tlag) % tau;
+  if (t < 0) t += tau;
+  const ka = m.ka;
+  const qa = Math.exp(-ka * tau);
+  let c = 0;
+  for (let i = 0; i < m.a.length; i++) {
+    const A = m.a[i]!;
+    const l = m.lambda[i]!;
+    const q = Math.exp(-l * tau);
+    if (Math.abs(ka - l) < ORAL_SINGULAR * l) {
+      c += m.F * amount * A * ka * Math.exp(-l * t) * (t / (1 - q) + (tau * q) / ((1 - q) * (1 - q)));
+    } else {
+      c +=
+        ((m.F * amount * A * ka) / (ka - l)) *
+        (Math.exp(-l * t) / (1 - q) - Math.exp(-ka * t) / (1 - qa));
+    }
+  }
+  return c;
+}
+
+/**
+ * Time of the steady-state oral peak after the dose (h), one compartment, closed form (Gibaldi M, Perrier D.
+ * Pharmacokinetics, 2nd ed., 1982, ch. 3; pk-reference A4):
+ *   tmax,ss = tlag + ln[ka(1 − e^(−kτ)) / (k(1 − e^(−ka τ)))]/(ka − k), taken modulo τ.
+ * Returns undefined for two compartments or ka ≈ k (the caller then uses `maximiseOnInterval`).
+ */
+export function oralSteadyStateTmax(m: ExponentialModel, tau: number): number | undefined {
+  if (m.a.length !== 1) return undefined;
+  const k = m.lambda[0]!;
+  const ka = m.ka;
+  if (Math.abs(ka - k) < ORAL_SINGULAR * k) return undefined;
+  const t =
+    Math.log((ka * (1 - Math.exp(-k * tau))) / (k * (1 - Math.exp(-ka * tau)))) / (ka - k);
+  return (m.tlag + t) % tau;
+}
+
+/**
+ * Maximum of f on [a, b]: a grid of `n` points, then golden-section refinement in the bracket of the best
+ * grid point (Kiefer J. Proc Am Math Soc 1953;4:502–506). Exact enough for a unimodal concentration curve.
+ */
+export function maximiseOnInterval(
+  f: (t: number) => number,
+  a: number,
+  b: number,
+  n = 200,
+): { time: number; value: number } {
+  let best = a;
+  let bestV = f(a);
+  const h = (b - a) / n;
+  for (let i = 1; i <= n; i++) {
+    const t = a + i * h;
+    const v = f(t);
+    if (v > bestV) {
+      bestV = v;
+      best = t;
+    }
+  }
+  let lo = Math.max(a, best - h);
+  let hi = Math.min(b, best + h);
+  const g = (Math.sqrt(5) - 1) / 2;
+  let x1 = hi - g * (hi - lo);
+  let x2 = lo + g * (hi - lo);
+  let f1 = f(x1);
+  let f2 = f(x2);
+  for (let it = 0; it < 60 && hi - lo > 1e-9 * Math.max(1, b); it++) {
+    if (f1 < f2) {
+      lo = x1;
+      x1 = x2;
+      f1 = f2;
+      x2 = lo + g * (hi - lo);
+      f2 = f(x2);
+    } else {
+      hi = x2;
+      x2 = x1;
+      f2 = f1;
+      x1 = hi - g * (hi - lo);
+      f1 = f(x1);
+    }
+  }
+  const tm = (lo + hi) / 2;
+  const vm = f(tm);
+  return vm >= bestV ? { time: tm, value: vm } : { time: best, value: bestV };
+}
+
+/**
+ * Steady-state oral/IM peak: time after the dose (h) and concentration (mg/L). One compartment: the A4
+ * closed form `oralSteadyStateTmax`; otherwise (or at ka ≈ k) `maximiseOnInterval` over the interval.
+ */
+export function oralSteadyStatePeak(
+  m: ExponentialModel,
+  amount: number,
+  tau: number,
+): { time: number; concentration: number } {
+  const f = (s: number): number => steadyStateOralConcentration(m, amount, tau, s);
+  const tm = oralSteadyStateTmax(m, tau);
+  if (tm !== undefined && tm >= 0 && tm <= tau) return { time: tm, concentration: f(tm) };
+  const r = maximiseOnInterval(f, 0, tau);
+  return { time: r.time, concentration: r.value };
+}

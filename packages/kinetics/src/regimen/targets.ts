@@ -17,6 +17,13 @@ export interface ExposureTarget {
   readonly trough?: Range;
   /** Peak concentration at steady state (see `peakDelay` of the finder). */
   readonly peak?: Range;
+  /**
+   * Average steady-state concentration, mg/L: the plateau R0/CL of a continuous infusion (pk-reference A2;
+   * vancomycin 20–25 mg/L, from memory: Rybak MJ et al. 2020), Km·R/(Vmax − R) for Michaelis-Menten
+   * (phenytoin total 10–20 mg/L, pk-reference E3), and AUC24,ss/24 = F·dose/(CL·τ) for any linear regimen
+   * (Gibaldi M, Perrier D. Pharmacokinetics, 2nd ed., 1982, ch. 3; pk-reference A4).
+   */
+  readonly css?: Range;
   /** Peak/MIC at least `min` (aminoglycosides ≈ 8–10: Moore RD, Lietman PS, Smith CR. J Infect Dis 1987;155:93 — from memory). */
   readonly peakToMic?: { readonly min: number; readonly mic: number };
 }
@@ -25,6 +32,16 @@ export interface Exposure {
   readonly auc24: number;
   readonly peak: number;
   readonly trough: number;
+  /**
+   * Average steady-state concentration, mg/L (see `ExposureTarget.css`). Absent: AUC24/24, which is the
+   * interval average of any regimen at steady state.
+   */
+  readonly css?: number;
+}
+
+/** The average steady-state concentration of an exposure: `css` if given, else AUC24/24. */
+export function averageConcentration(e: Exposure): number {
+  return e.css ?? e.auc24 / 24;
 }
 
 /** Throws unless every range is well formed. */
@@ -32,7 +49,7 @@ export function validateTarget(fn: string, t: ExposureTarget): void {
   if (t == null || typeof t !== 'object')
     throw new EngineError('invalid-input', `${fn}: target must be an object`, 'target');
   let any = false;
-  for (const k of ['auc24', 'trough', 'peak'] as const) {
+  for (const k of ['auc24', 'trough', 'peak', 'css'] as const) {
     const r = t[k];
     if (r === undefined) continue;
     any = true;
@@ -65,7 +82,7 @@ export function validateTarget(fn: string, t: ExposureTarget): void {
   if (!any)
     throw new EngineError(
       'invalid-input',
-      `${fn}: target must give at least one of auc24, trough, peak, peakToMic`,
+      `${fn}: target must give at least one of auc24, trough, peak, css, peakToMic`,
       'target',
     );
 }
@@ -82,6 +99,7 @@ export function targetsMet(
   if (t.auc24) each.auc24 = inRange(e.auc24, t.auc24);
   if (t.trough) each.trough = inRange(e.trough, t.trough);
   if (t.peak) each.peak = inRange(e.peak, t.peak);
+  if (t.css) each.css = inRange(averageConcentration(e), t.css);
   if (t.peakToMic) each.peakToMic = e.peak / t.peakToMic.mic >= t.peakToMic.min;
   return { all: Object.values(each).every(Boolean), each };
 }
@@ -104,6 +122,7 @@ export function targetDistance(e: Exposure, t: ExposureTarget): number {
   if (t.auc24) parts.push(one(e.auc24, t.auc24));
   if (t.trough) parts.push(one(e.trough, t.trough));
   if (t.peak) parts.push(one(e.peak, t.peak));
+  if (t.css) parts.push(one(averageConcentration(e), t.css));
   if (t.peakToMic) parts.push(one(e.peak / t.peakToMic.mic, { min: t.peakToMic.min }));
   return Math.sqrt(parts.reduce((s, x) => s + x * x, 0) / Math.max(1, parts.length));
 }
