@@ -238,6 +238,48 @@ describe('POST /api/courses/:id/regimens', () => {
   });
 });
 
+describe('POST /api/courses/:id/regimens (phenytoin)', () => {
+  it('when the model is Michaelis-Menten, then oral regimens come back with the salt factor and steady-state exposure', async () => {
+    // Arrange
+    const p = await createRealPatient(pharmacist, { sex: 'female', birthDate: '1955-02-11' });
+    await pharmacist
+      .post(`/api/patients/${p.id}/covariates`)
+      .send({
+        kind: 'weight',
+        value: 64,
+        unit: 'kg',
+        weightSource: 'measured',
+        observedAt: hoursAgo(100),
+      })
+      .expect(201);
+    await pharmacist
+      .post(`/api/patients/${p.id}/covariates`)
+      .send({ kind: 'serum-creatinine', value: 80, unit: 'umol/L', observedAt: hoursAgo(100) })
+      .expect(201);
+    const c = await createCourse(pharmacist, p.id, 'phenytoin', {
+      target: { metric: 'trough', low: 10, high: 20 },
+      micMgL: null,
+    });
+    for (const h of [96, 72, 48, 24])
+      await pharmacist
+        .post(`/api/courses/${c.id}/doses`)
+        .send({ amount: 300, unit: 'mg', route: 'oral', startAt: hoursAgo(h) })
+        .expect(201);
+    // Act
+    const res = await pharmacist
+      .post(`/api/courses/${c.id}/regimens`)
+      .send({ parameters: 'population' });
+    // Assert
+    expect(res.status).toBe(200);
+    expect(res.body.caution).toMatch(CAUTION_PATTERN);
+    expect(res.body.regimens.length).toBeGreaterThan(0);
+    expect(res.body.regimens.every((r: { regimenKind: string }) => r.regimenKind === 'oral')).toBe(
+      true,
+    );
+    expect(res.body.warnings.map((w: { code: string }) => w.code)).toContain('salt-factor');
+  });
+});
+
 describe('POST /api/courses/:id/sampling', () => {
   it('when asking when to draw after a planned regimen, then ranked draw times with predicted values and the caution come back', async () => {
     const { course } = await vancomycinCase();

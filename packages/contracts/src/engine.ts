@@ -137,6 +137,10 @@ export const regimenSearchRequestSchema = z
     intervalsH: z.array(z.number().positive().max(168)).min(1).max(10).optional(),
     infusionH: z.number().min(0).max(48).optional(),
     roundToMg: z.number().positive().max(1000).optional(),
+    /** Default: intermittent infusion; oral for Michaelis-Menten drugs (phenytoin). */
+    regimenKind: z
+      .enum(['intermittent-infusion', 'oral', 'intramuscular', 'continuous-infusion'])
+      .optional(),
     startAt: isoDateTimeSchema.optional(),
     startHour: relativeHourSchema.optional(),
   })
@@ -144,6 +148,7 @@ export const regimenSearchRequestSchema = z
 export type RegimenSearchRequest = z.infer<typeof regimenSearchRequestSchema>;
 
 export const regimenResultSchema = z.object({
+  regimenKind: z.enum(['intermittent-infusion', 'oral', 'intramuscular', 'continuous-infusion']),
   doseMg: z.number(),
   intervalH: z.number(),
   infusionH: z.number(),

@@ -447,6 +447,7 @@ export async function levelValidity(
 
 function toRegimenResult(r: RegimenCandidate) {
   return {
+    regimenKind: r.regimenKind,
     doseMg: r.amount,
     intervalH: r.interval,
     infusionH: r.infusionDuration,
@@ -467,13 +468,6 @@ export async function searchRegimens(
   req: RegimenSearchRequest,
 ): Promise<RegimenSearchResponse> {
   const c = await loadEngineCase(db, actor, courseId);
-  if (c.structure.elimination !== 'linear') {
-    throw new AppError(
-      'engine-refused',
-      'The regimen finder covers linear models; for Michaelis-Menten drugs (phenytoin) simulate candidate regimens instead.',
-      422,
-    );
-  }
   const which = req.parameters === 'map' && c.levels.length === 0 ? 'population' : req.parameters;
   const extra: Warning[] = [];
   if (which !== req.parameters)
@@ -491,7 +485,9 @@ export async function searchRegimens(
       : (c.doses[c.doses.length - 1]?.time ?? 0) + 12;
   let result;
   try {
+    const mm = c.structure.elimination === 'michaelis-menten';
     result = findRegimens({
+      regimenKind: req.regimenKind ?? (mm ? 'oral' : undefined),
       model: c.structure,
       parameters,
       target: exposure,
@@ -514,6 +510,12 @@ export async function searchRegimens(
     engineRefused(error);
   }
   const regimens = result.candidates.map(toRegimenResult);
+  if (result.refused.length) {
+    extra.push({
+      code: 'regimens-refused',
+      message: `${result.refused.length} candidate regimen(s) were left out: ${[...new Set(result.refused.map((r) => r.message))].slice(0, 2).join(' ')}`,
+    });
+  }
   if (result.outcome === 'no-regimen-meets-targets')
     extra.push({
       code: 'no-regimen-meets-target',
