@@ -14,12 +14,19 @@
  * Candidate times lie on a grid from `distributionPhaseHours` after the end of the named dose's infusion to the
  * start of the next dose. The conventional pair (post-distribution peak + trough just before the next dose)
  * is always reported, with the best single time and the best pair from an exhaustive search.
- * Predictions use exact exponential sums; linear models only.
+ * Oral/IM doses (first-order absorption): the conventional pair is the steady-state peak at tmax,ss (A4 closed
+ * form for one compartment, `oralSteadyStatePeak`; numerical maximum for two) and the pre-dose trough; the
+ * grid starts one `gridStep` after the absorption lag.
+ * Predictions use exact exponential sums; linear models only (Michaelis-Menten: `suggestSteadyStateTrough`).
  */
 import { EngineError } from '../errors';
 import { inverseSpd, quadraticForm } from '../estimation/linalg';
 import type { EngineWarning, ResidualErrorModel } from '../estimation/types';
-import { exponentialModel, superposedConcentrations } from '../regimen/linear-response';
+import {
+  exponentialModel,
+  oralSteadyStatePeak,
+  superposedConcentrations,
+} from '../regimen/linear-response';
 import type { Dose, ModelStructure, PkParameters } from '../types';
 
 export interface SamplingOptions {
@@ -165,21 +172,34 @@ export function suggestSamplingTimes(input: {
     );
   }
   const interval = nextStart - dose.time;
-  const first = dose.time + T + o.distributionPhaseHours;
+  const oralDose = dose.route === 'oral';
+  const oral = doses.some((d) => d.route === 'oral');
+  const first = oralDose
+    ? dose.time + (input.parameters.tlag ?? 0) + o.gridStep
+    : dose.time + T + o.distributionPhaseHours;
   if (first >= nextStart)
     throw new EngineError(
       'invalid-input',
-      `${fn}: the interval is too short for a post-distribution draw`,
+      `${fn}: the interval is too short for a ${oralDose ? 'post-absorption' : 'post-distribution'} draw`,
       'doses',
     );
   const times: number[] = [];
   for (let t = first; t <= nextStart + 1e-9; t += o.gridStep) times.push(Math.min(t, nextStart));
   const trough = nextStart - o.troughBeforeNextDose;
-  const conventionalTimes = [first, Math.max(first, trough)];
+  let peakTime = first;
+  if (oralDose) {
+    // Peak near tmax,ss (Gibaldi & Perrier ch. 3; pk-reference A4) at the current estimate.
+    const tm = oralSteadyStatePeak(
+      exponentialModel(input.model, input.parameters, true),
+      dose.amount,
+      interval,
+    ).time;
+    peakTime = Math.min(Math.max(dose.time + tm, first), trough);
+  }
+  const conventionalTimes = [peakTime, Math.max(peakTime, trough)];
   const allTimes = [...times, ...conventionalTimes];
 
   const base = input.parameters as unknown as Record<string, number>;
-  const oral = doses.some((d) => d.route === 'oral');
   let modelEvaluations = 0;
   const predictAt = (eta: readonly number[]): number[] => {
     const p: Record<string, number> = { ...base };
@@ -253,6 +273,12 @@ export function suggestSamplingTimes(input: {
     warnings.push({
       code: 'cl-fixed',
       message: 'CL is fixed in this model, so no draw can change the AUC24 uncertainty.',
+    });
+  }
+  if (oralDose) {
+    warnings.push({
+      code: 'oral-peak-at-tmax-ss',
+      message: `Oral/IM dose: the peak draw is at the steady-state tmax (${(peakTime - dose.time).toFixed(2)} h after the dose) of the current estimate; before steady state the true peak time differs a little.`,
     });
   }
   warnings.push({
