@@ -202,3 +202,25 @@ export {
   type SteadyStateProgress,
   type ThresholdTimes,
 } from './metrics/metrics';
+
+// Regimen kinds beyond intermittent infusion: oral/IM, continuous infusion, Michaelis-Menten (phenytoin).
+export type { RegimenKind, RefusedRegimen, RegimenSearchInput } from './regimen/finder';
+export { averageConcentration } from './regimen/targets';
+export {
+  steadyStateOralConcentration,
+  oralSteadyStateTmax,
+  oralSteadyStatePeak,
+  maximiseOnInterval,
+} from './regimen/linear-response';
+export {
+  michaelisMentenRegimenSteadyState,
+  michaelisMentenSteadyStateDefaultOptions,
+  type MichaelisMentenDosing,
+  type MichaelisMentenSteadyStateOptions,
+  type MichaelisMentenSteadyStateResult,
+} from './regimen/michaelis-menten-steady-state';
+export {
+  suggestSteadyStateTrough,
+  type SteadyStateTroughInput,
+  type SteadyStateTroughSuggestion,
+} from './sampling/steady-state-trough';
