@@ -132,3 +132,9 @@ line(
   'target',
   `RK4 < 1 ms: ${tSim < 1 ? 'met' : 'NOT met'}; ≥ 3× faster than odex: ${tOdex / tSim >= 3 ? 'met' : 'NOT met'}`,
 );
+
+// Estimation benchmarks (MAP fit, PTA serial and pooled) in the same `pnpm bench` run.
+const { runEstimationBench } = await import('./estimation');
+process.stdout.write('\n');
+const estimationLines = await runEstimationBench();
+if (!estimationLines.every((l) => l.pass)) process.exitCode = 1;
