@@ -322,6 +322,47 @@ describe('POST /api/courses/:id/pta and GET /api/jobs/:id', () => {
     expect((await trainee.get(accepted.body.statusUrl)).status).toBe(404);
   });
 
+  it('when a phenytoin regimen is run, then the trough range is evaluated as Css and the job completes', async () => {
+    // Arrange
+    const p = await createRealPatient(pharmacist, { sex: 'male', birthDate: '1970-06-01' });
+    await pharmacist
+      .post(`/api/patients/${p.id}/covariates`)
+      .send({
+        kind: 'weight',
+        value: 75,
+        unit: 'kg',
+        weightSource: 'measured',
+        observedAt: hoursAgo(50),
+      })
+      .expect(201);
+    const c = await createCourse(pharmacist, p.id, 'phenytoin', {
+      target: { metric: 'trough', low: 10, high: 20 },
+      micMgL: null,
+    });
+    await pharmacist
+      .post(`/api/courses/${c.id}/doses`)
+      .send({ amount: 300, unit: 'mg', route: 'oral', startAt: hoursAgo(24) })
+      .expect(201);
+    // Act
+    const accepted = await pharmacist.post(`/api/courses/${c.id}/pta`).send({
+      regimen: { doseMg: 300, intervalH: 24, infusionH: 0, route: 'oral' },
+      parameters: 'population',
+      samples: 200,
+      seed: 3,
+    });
+    let job = (await pharmacist.get(accepted.body.statusUrl)).body;
+    for (let i = 0; i < 60 && job.state !== 'completed' && job.state !== 'failed'; i++) {
+      await new Promise((r) => setTimeout(r, 250));
+      job = (await pharmacist.get(accepted.body.statusUrl)).body;
+    }
+    // Assert
+    expect(accepted.status).toBe(202);
+    expect(job.error).toBeNull();
+    expect(job.state).toBe('completed');
+    expect(job.result.source).toBe('population');
+    expect(job.result.warnings.map((w: { code: string }) => w.code)).toContain('target-as-css');
+  });
+
   it('when the regimen is missing, then it answers 400', async () => {
     const { course } = await vancomycinCase({ levels: false });
     expect((await pharmacist.post(`/api/courses/${course.id}/pta`).send({})).status).toBe(400);

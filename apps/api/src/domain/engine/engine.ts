@@ -50,16 +50,28 @@ export const MAX_POINTS = 5000;
 const modelRef = (c: EngineCase) => ({ id: c.ctx.model.id, version: c.ctx.model.version });
 const asRecord = (p: PkParameters) => ({ ...(p as unknown as Record<string, number>) });
 
-/** The course target as the engine's ExposureTarget (css is AUC24 = Css × 24). */
+/**
+ * The course target as the engine's ExposureTarget. For a Michaelis-Menten drug (phenytoin) a trough or
+ * peak range is evaluated as the steady-state average (Css): levels fluctuate little within a dosing
+ * interval at steady state, and the engine predicts Css for these models (pk-reference A8, E3).
+ */
 export function exposureTarget(
   target: Target,
   micMgL: number | null,
   warnings: Warning[],
+  michaelisMenten = false,
 ): ExposureTarget {
   const range = {
     ...(target.low !== null ? { min: target.low } : {}),
     ...(target.high !== null ? { max: target.high } : {}),
   };
+  if (michaelisMenten && (target.metric === 'trough' || target.metric === 'peak')) {
+    warnings.push({
+      code: 'target-as-css',
+      message: `The ${target.metric} range is evaluated as the steady-state average concentration (Css), as the engine predicts for Michaelis-Menten kinetics.`,
+    });
+    return { css: range };
+  }
   switch (target.metric) {
     case 'auc24':
       return { auc24: range };
@@ -68,12 +80,7 @@ export function exposureTarget(
     case 'peak':
       return { peak: range };
     case 'css':
-      return {
-        auc24: {
-          ...(target.low !== null ? { min: target.low * 24 } : {}),
-          ...(target.high !== null ? { max: target.high * 24 } : {}),
-        },
-      };
+      return { css: range };
     case 'peak-mic-ratio':
       if (micMgL === null)
         warnings.push({
@@ -477,7 +484,12 @@ export async function searchRegimens(
     });
   const { parameters, warnings } = parametersFor(c, which);
   const target = req.target ?? c.ctx.course.target;
-  const exposure = exposureTarget(target, c.ctx.course.micMgL, extra);
+  const exposure = exposureTarget(
+    target,
+    c.ctx.course.micMgL,
+    extra,
+    c.structure.elimination === 'michaelis-menten',
+  );
   const practical = c.entry.practical;
   const startTime =
     req.startHour !== undefined || req.startAt !== undefined

@@ -48,14 +48,8 @@ export async function requestPta(
   req: PtaRequest,
   queue: JobQueue,
 ): Promise<JobAccepted> {
-  const c = await loadEngineCase(db, actor, courseId);
-  if (c.structure.elimination !== 'linear') {
-    throw new AppError(
-      'engine-refused',
-      'PTA covers linear models; Michaelis-Menten drugs (phenytoin) are not supported yet.',
-      422,
-    );
-  }
+  // Loading the case checks now that the engine can run (covariates present), before the job is queued.
+  await loadEngineCase(db, actor, courseId);
   const job = await insertEngineJob(db, {
     kind: 'pta',
     courseId,
@@ -127,10 +121,22 @@ export async function runPtaJob(
         {
           amount: req.regimen.doseMg,
           interval: req.regimen.intervalH,
-          infusionDuration: req.regimen.infusionH,
+          infusionDuration: req.regimen.route === 'iv-bolus' ? 0 : req.regimen.infusionH,
+          regimenKind:
+            req.regimen.route === 'oral'
+              ? 'oral'
+              : req.regimen.route === 'im'
+                ? 'intramuscular'
+                : 'intermittent-infusion',
+          saltFactor: c.entry.practical?.saltFactor ?? 1,
         },
       ],
-      target: exposureTarget(target, c.ctx.course.micMgL, warnings),
+      target: exposureTarget(
+        target,
+        c.ctx.course.micMgL,
+        warnings,
+        c.structure.elimination === 'michaelis-menten',
+      ),
       n: req.samples,
       seed: req.seed ?? 20261202,
       peakDelay: c.ctx.course.drug === 'vancomycin' ? 1 : 0.5,
