@@ -108,7 +108,12 @@ describe('pta/pta probabilityOfTargetAttainment (oral and continuous, linear)', 
     // Source: pk-reference A2 (Css = R0/CL); CL log-normal, so Css in [20, 25] ⇔ CL in [R0/25, R0/20].
     const TWO: ModelStructure = { compartments: 2, elimination: 'linear' };
     const typ = { CL: 4.2, V1: 35, Q: 6, V2: 45 };
-    const reg = { amount: 2250, interval: 24, infusionDuration: 0, regimenKind: 'continuous-infusion' as const };
+    const reg = {
+      amount: 2250,
+      interval: 24,
+      infusionDuration: 0,
+      regimenKind: 'continuous-infusion' as const,
+    };
     const none = probabilityOfTargetAttainment({
       model: TWO,
       source: { kind: 'population', prior: { typical: typ, variability: {} } },

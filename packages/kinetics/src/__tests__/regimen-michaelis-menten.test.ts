@@ -98,7 +98,9 @@ describe('regimen/finder findRegimens({ model: Michaelis-Menten, regimenKind: "o
       expect(relErr(sim.concentrations[1]!, c.steadyState.peak)).toBeLessThan(1e-5);
       expect(relErr((sim.aucs[0]! * 24) / c.interval, c.steadyState.auc24)).toBeLessThan(1e-5);
       // Nonlinear elimination: the interval average is at or slightly above the constant-input Css (Jensen).
-      expect(c.michaelisMenten!.simulatedAverage).toBeGreaterThanOrEqual(c.steadyState.css! * (1 - 1e-6));
+      expect(c.michaelisMenten!.simulatedAverage).toBeGreaterThanOrEqual(
+        c.steadyState.css! * (1 - 1e-6),
+      );
       expect(c.michaelisMenten!.averageVsCss).toBeLessThan(0.02);
     }
   });
@@ -170,7 +172,10 @@ describe('regimen/finder findRegimens({ model: Michaelis-Menten, regimenKind: "o
       route: 'oral',
     }));
     const tLast = n * best.interval;
-    const times = Array.from({ length: 97 }, (_, i) => tLast - best.interval + (i * best.interval) / 96);
+    const times = Array.from(
+      { length: 97 },
+      (_, i) => tLast - best.interval + (i * best.interval) / 96,
+    );
     const sim = simulate({ model: MM1, parameters: p, doses, outputTimes: times });
     for (const c of sim.concentrations) {
       expect(c).toBeGreaterThanOrEqual(10);

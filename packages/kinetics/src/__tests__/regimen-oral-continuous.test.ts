@@ -15,7 +15,13 @@ const EXACT = 1e-10;
 const RK4_SS_TOL = 1e-5;
 
 /** Regular doses every τ for `days`, then the last full interval [tLast − τ, tLast]. */
-function longRun(amount: number, tau: number, route: Dose['route'], days: number, duration?: number) {
+function longRun(
+  amount: number,
+  tau: number,
+  route: Dose['route'],
+  days: number,
+  duration?: number,
+) {
   const n = Math.ceil((days * 24) / tau);
   const doses: Dose[] = Array.from({ length: n + 1 }, (_, i) =>
     route === 'infusion'
@@ -68,13 +74,15 @@ describe('regimen/finder findRegimens({ regimenKind: "oral" })', () => {
       if (u < 0) u += tau;
       return (
         ((0.8 * D * ka) / (50 * (ka - k))) *
-        (Math.exp(-k * u) / (1 - Math.exp(-k * tau)) - Math.exp(-ka * u) / (1 - Math.exp(-ka * tau)))
+        (Math.exp(-k * u) / (1 - Math.exp(-k * tau)) -
+          Math.exp(-ka * u) / (1 - Math.exp(-ka * tau)))
       );
     };
     for (const c of r.candidates) {
       const tau = c.interval;
       const tmax =
-        Math.log((ka * (1 - Math.exp(-k * tau))) / (k * (1 - Math.exp(-ka * tau)))) / (ka - k) + 0.5;
+        Math.log((ka * (1 - Math.exp(-k * tau))) / (k * (1 - Math.exp(-ka * tau)))) / (ka - k) +
+        0.5;
       expect(c.peakTime).toBeCloseTo(tmax, 10);
       expect(relErr(c.steadyState.peak, css(c.amount, tau, tmax))).toBeLessThan(EXACT);
       expect(relErr(c.steadyState.trough, css(c.amount, tau, 0))).toBeLessThan(EXACT);
@@ -117,7 +125,10 @@ describe('regimen/finder findRegimens({ regimenKind: "oral" })', () => {
       model: TWO,
       parameters: p,
       doses,
-      outputTimes: Array.from({ length: 2001 }, (_, i) => tLast - best.interval + (i * best.interval) / 2000),
+      outputTimes: Array.from(
+        { length: 2001 },
+        (_, i) => tLast - best.interval + (i * best.interval) / 2000,
+      ),
     }).concentrations;
     expect(relErr(Math.max(...scan), pk.concentration)).toBeLessThan(RK4_SS_TOL);
   });

@@ -40,7 +40,12 @@ describe('sampling/suggest suggestSamplingTimes (oral doses)', () => {
     expect(r.conventional.sdLogAuc24).toBeLessThan(r.currentSdLogAuc24);
     expect(r.warnings.map((w) => w.code)).toContain('oral-peak-at-tmax-ss');
     // Predictions at the draws equal RK4 of the dose list.
-    const sim = simulate({ model: ONE, parameters: p, doses, outputTimes: [peak!.time, trough!.time] });
+    const sim = simulate({
+      model: ONE,
+      parameters: p,
+      doses,
+      outputTimes: [peak!.time, trough!.time],
+    });
     expect(relErr(peak!.predicted, sim.concentrations[0]!)).toBeLessThan(1e-6);
     expect(relErr(trough!.predicted, sim.concentrations[1]!)).toBeLessThan(1e-6);
   });

@@ -224,7 +224,12 @@ export function probabilityOfTargetAttainment(input: PtaInput): PtaResult {
   const anyOral = kinds.some((x) => x === 'oral' || x === 'intramuscular');
   const doses: Dose[] = input.regimens.map((r) =>
     r.infusionDuration > 0
-      ? { time: 0, amount: r.amount * (r.saltFactor ?? 1), route: 'infusion', duration: r.infusionDuration }
+      ? {
+          time: 0,
+          amount: r.amount * (r.saltFactor ?? 1),
+          route: 'infusion',
+          duration: r.infusionDuration,
+        }
       : { time: 0, amount: r.amount * (r.saltFactor ?? 1), route: 'bolus' },
   );
   const attained = input.regimens.map(() => 0);
@@ -296,7 +301,9 @@ const KINDS: readonly RegimenKind[] = [
 ];
 
 function targetKeys(t: ExposureTarget): string[] {
-  return (['auc24', 'trough', 'peak', 'css', 'peakToMic'] as const).filter((k) => t[k] !== undefined);
+  return (['auc24', 'trough', 'peak', 'css', 'peakToMic'] as const).filter(
+    (k) => t[k] !== undefined,
+  );
 }
 
 function requireMichaelisMenten(fn: string, p: Record<string, number>): void {

@@ -89,7 +89,8 @@ export interface RegimenSearchOptions {
  * How the regimen is given. `intermittent-infusion` is the default (the finder's original behaviour);
  * `oral` and `intramuscular` are first-order absorption; `continuous-infusion` is a constant rate.
  */
-export type RegimenKind = 'intermittent-infusion' | 'oral' | 'intramuscular' | 'continuous-infusion';
+export type RegimenKind =
+  'intermittent-infusion' | 'oral' | 'intramuscular' | 'continuous-infusion';
 
 /** A candidate the finder would not predict, with the reason (e.g. `no-steady-state` when R ≥ Vmax). */
 export interface RefusedRegimen {
@@ -532,7 +533,13 @@ function searchMichaelisMenten(s: Search): void {
       s.evaluations++;
       const dailyDose = (amount * 24) / tau;
       if (r.outcome === 'no-steady-state') {
-        s.refused.push({ amount, interval: tau, dailyDose, code: 'no-steady-state', message: r.message });
+        s.refused.push({
+          amount,
+          interval: tau,
+          dailyDose,
+          code: 'no-steady-state',
+          message: r.message,
+        });
         continue;
       }
       const warnings: EngineWarning[] = [];
@@ -718,7 +725,11 @@ export function findRegimens(input: RegimenSearchInput): RegimenSearchResult {
         'No regimen within the dose caps, intervals and infusion-rate limit meets every target; the closest are listed.',
     });
   }
-  if (input.target.trough && !input.target.auc24 && input.model?.elimination !== 'michaelis-menten') {
+  if (
+    input.target.trough &&
+    !input.target.auc24 &&
+    input.model?.elimination !== 'michaelis-menten'
+  ) {
     warnings.push({
       code: 'trough-only-target',
       message:

@@ -202,7 +202,8 @@ export function steadyStateOralConcentration(
     const l = m.lambda[i]!;
     const q = Math.exp(-l * tau);
     if (Math.abs(ka - l) < ORAL_SINGULAR * l) {
-      c += m.F * amount * A * ka * Math.exp(-l * t) * (t / (1 - q) + (tau * q) / ((1 - q) * (1 - q)));
+      c +=
+        m.F * amount * A * ka * Math.exp(-l * t) * (t / (1 - q) + (tau * q) / ((1 - q) * (1 - q)));
     } else {
       c +=
         ((m.F * amount * A * ka) / (ka - l)) *
@@ -223,8 +224,7 @@ export function oralSteadyStateTmax(m: ExponentialModel, tau: number): number | 
   const k = m.lambda[0]!;
   const ka = m.ka;
   if (Math.abs(ka - k) < ORAL_SINGULAR * k) return undefined;
-  const t =
-    Math.log((ka * (1 - Math.exp(-k * tau))) / (k * (1 - Math.exp(-ka * tau)))) / (ka - k);
+  const t = Math.log((ka * (1 - Math.exp(-k * tau))) / (k * (1 - Math.exp(-ka * tau)))) / (ka - k);
   return (m.tlag + t) % tau;
 }
 

@@ -192,7 +192,10 @@ export function michaelisMentenRegimenSteadyState(
   const remainingError = (Math.abs(trough - prevTrough) / trough) * (q2 / (1 - q2));
   const aucTau = sim.aucs[0]!;
   return {
-    outcome: remainingError <= Math.max(o.relativeTolerance * 100, 1e-4) ? 'steady-state' : 'not-converged',
+    outcome:
+      remainingError <= Math.max(o.relativeTolerance * 100, 1e-4)
+        ? 'steady-state'
+        : 'not-converged',
     inputRate: R,
     vmax: vmax!,
     css,

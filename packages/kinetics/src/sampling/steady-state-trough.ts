@@ -76,7 +76,9 @@ export type SteadyStateTroughSuggestion =
  *   parameters: { V1: 49, Vmax: 415 / 24, Km: 5.7, ka: 0.3, F: 0.859 },
  *   regimen: { amount: 300, interval: 24, route: 'oral' }, saltFactor: 0.92 }).time90Days // => ≈ 6.5
  */
-export function suggestSteadyStateTrough(input: SteadyStateTroughInput): SteadyStateTroughSuggestion {
+export function suggestSteadyStateTrough(
+  input: SteadyStateTroughInput,
+): SteadyStateTroughSuggestion {
   const fn = 'suggestSteadyStateTrough';
   if (input == null || typeof input !== 'object')
     throw new EngineError('invalid-input', `${fn}: input must be an object`, 'input');
