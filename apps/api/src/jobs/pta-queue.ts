@@ -21,11 +21,23 @@ async function start(
   const boss = createJobQueue(config);
   boss.on('error', (err) => logger.error({ err }, 'PTA queue error'));
   await boss.start();
-  await boss.createQueue(PTA_QUEUE);
-  await boss.work<{ jobId: string }>(PTA_QUEUE, { pollingIntervalSeconds: 0.5 }, async (jobs) => {
-    for (const job of jobs) await runPtaJob(db, job.data.jobId);
-  });
+  await startPtaWorker({ boss, db });
   return boss;
+}
+
+/**
+ * Registers the PTA worker on an already started PgBoss, e.g. from a worker-only process beside its
+ * other workers, so PTA runs can go to machines other than the API's.
+ */
+export async function startPtaWorker(deps: { boss: PgBoss; db: Db }): Promise<void> {
+  await deps.boss.createQueue(PTA_QUEUE);
+  await deps.boss.work<{ jobId: string }>(
+    PTA_QUEUE,
+    { pollingIntervalSeconds: 0.5 },
+    async (jobs) => {
+      for (const job of jobs) await runPtaJob(deps.db, job.data.jobId);
+    },
+  );
 }
 
 export function ptaQueue(config: Pick<AppConfig, 'databaseUrl'>, db: Db, logger: Logger): JobQueue {
