@@ -1,3 +1,4 @@
+import { vancomycinGoti2018 } from '@ebbtide/kinetics';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createTestApp } from './helpers';
 import { anonymousAgent, signedInAgent, type SignedInClient } from './support/sign-in';
@@ -14,12 +15,14 @@ const { app, db } = createTestApp();
 let pharmacist: SignedInClient;
 let reviewer: SignedInClient;
 let trainee: SignedInClient;
+let admin: SignedInClient;
 
 beforeAll(async () => {
   await ensureTestModels(db);
   pharmacist = await signedInAgent(app, 'pharmacist');
   reviewer = await signedInAgent(app, 'reviewer');
   trainee = await signedInAgent(app, 'trainee');
+  admin = await signedInAgent(app, 'admin');
 });
 afterAll(() => db.destroy());
 
@@ -172,6 +175,41 @@ describe('POST /api/courses/:id/doses', () => {
       .send({ amount: 1000, unit: 'mg', route: 'iv-infusion', startHour: 12, infusionMinutes: 60 });
     expect(denied.status).toBe(403);
     expect((await trainee.get(`/api/courses/${c.id}/doses`)).body.total).toBe(1);
+  });
+
+  it('when a site model allows a dose the table refuses (over 20 g), then it answers 400 and saves nothing', async () => {
+    // Arrange
+    const id = `site-vanco-huge-${Date.now().toString(36)}`;
+    await admin
+      .post('/api/drug-models')
+      .send({
+        id,
+        drug: 'vancomycin',
+        name: 'wide',
+        source: 'test',
+        definition: { ...vancomycinGoti2018, id },
+        plausibleSingleDoseMg: { min: 250, max: 50_000 },
+      })
+      .expect(201);
+    const p = await createRealPatient(pharmacist);
+    const c = await createCourse(pharmacist, p.id, 'vancomycin', { modelId: id });
+    // Act
+    const res = await pharmacist.post(`/api/courses/${c.id}/doses`).send({
+      amount: 30,
+      unit: 'g',
+      route: 'iv-infusion',
+      startAt: hoursAgo(3),
+      infusionMinutes: 60,
+    });
+    // Assert
+    expect(res.status).toBe(400);
+    expect(res.body.fieldErrors._[0]).toMatch(/doses_amount_check/);
+    expect(await db('doses').where({ course_id: c.id })).toHaveLength(0);
+    expect(
+      await db('audit_events')
+        .where({ action: 'dose.create' })
+        .whereRaw("context->>'courseId' = ?", [c.id]),
+    ).toHaveLength(0);
   });
 
   it('when signed out, then it answers 401', async () => {

@@ -130,6 +130,12 @@ function mapDbError(error: unknown): never {
     throw invalid({
       observedAt: ['this kind of observation is already recorded at that time (duplicate)'],
     });
+  const check = databaseErrorKind(error);
+  if (check?.kind === 'check') {
+    throw invalid({
+      _: [`the value was refused by the database's plausibility rule ${check.constraint}`],
+    });
+  }
   throw error;
 }
 

@@ -117,6 +117,12 @@ function mapDbError(error: unknown): never {
       startAt: ['a dose at this time is already recorded on this course (duplicate)'],
     });
   }
+  const check = databaseErrorKind(error);
+  if (check?.kind === 'check') {
+    throw invalid({
+      _: [`the value was refused by the database's plausibility rule ${check.constraint}`],
+    });
+  }
   throw error;
 }
 

@@ -133,6 +133,12 @@ function mapDbError(error: unknown): never {
       ],
     });
   }
+  const check = databaseErrorKind(error);
+  if (check?.kind === 'check') {
+    throw invalid({
+      _: [`the value was refused by the database's plausibility rule ${check.constraint}`],
+    });
+  }
   throw error;
 }
 
