@@ -264,6 +264,29 @@ describe('PATCH /api/doses/:id', () => {
   });
 });
 
+describe('PATCH /api/doses/:id (partial update)', () => {
+  it('when only the note is sent, then a missed dose stays missed', async () => {
+    const c = await vancoCourse();
+    const d = await pharmacist.post(`/api/courses/${c.id}/doses`).send({
+      amount: 1000,
+      unit: 'mg',
+      route: 'iv-infusion',
+      startAt: hoursAgo(12),
+      infusionMinutes: 60,
+      administrationStatus: 'missed',
+    });
+    const res = await pharmacist
+      .patch(`/api/doses/${d.body.id}`)
+      .send({ version: 1, note: 'no IV access' });
+    expect(res.status).toBe(200);
+    expect(res.body).toMatchObject({
+      administrationStatus: 'missed',
+      note: 'no IV access',
+      version: 2,
+    });
+  });
+});
+
 describe('DELETE /api/doses/:id', () => {
   it('when the version is stale, then it answers 409 and the dose stays; with the current version it is removed', async () => {
     const c = await vancoCourse();

@@ -43,10 +43,10 @@ export const doseCreateSchema = z
   .strict();
 export type DoseCreate = z.infer<typeof doseCreateSchema>;
 
-/** PATCH /api/doses/:id */
+/** PATCH /api/doses/:id — only the fields sent change (no defaults are applied). */
 export const doseUpdateSchema = doseCreateSchema
   .partial()
-  .extend({ version: versionSchema })
+  .extend({ version: versionSchema, administrationStatus: administrationStatusSchema.optional() })
   .strict();
 export type DoseUpdate = z.infer<typeof doseUpdateSchema>;
 

@@ -50,10 +50,10 @@ export const levelCreateSchema = z
   .strict();
 export type LevelCreate = z.infer<typeof levelCreateSchema>;
 
-/** PATCH /api/levels/:id */
+/** PATCH /api/levels/:id — only the fields sent change (no defaults are applied). */
 export const levelUpdateSchema = levelCreateSchema
   .partial()
-  .extend({ version: versionSchema })
+  .extend({ version: versionSchema, fraction: levelFractionSchema.optional() })
   .strict();
 export type LevelUpdate = z.infer<typeof levelUpdateSchema>;
 
