@@ -363,6 +363,24 @@ describe('POST /api/courses/:id/pta and GET /api/jobs/:id', () => {
     expect(job.result.warnings.map((w: { code: string }) => w.code)).toContain('target-as-css');
   });
 
+  it('when a large run is requested, then it goes to the worker-thread pool and completes', async () => {
+    const { course } = await vancomycinCase();
+    const accepted = await pharmacist.post(`/api/courses/${course.id}/pta`).send({
+      regimen: { doseMg: 1000, intervalH: 12, infusionH: 1 },
+      parameters: 'population',
+      samples: 6000,
+      seed: 11,
+    });
+    let job = (await pharmacist.get(accepted.body.statusUrl)).body;
+    for (let i = 0; i < 120 && job.state !== 'completed' && job.state !== 'failed'; i++) {
+      await new Promise((r) => setTimeout(r, 250));
+      job = (await pharmacist.get(accepted.body.statusUrl)).body;
+    }
+    expect(job.error).toBeNull();
+    expect(job.state).toBe('completed');
+    expect(job.result.samples).toBe(6000);
+  }, 60_000);
+
   it('when the regimen is missing, then it answers 400', async () => {
     const { course } = await vancomycinCase({ levels: false });
     expect((await pharmacist.post(`/api/courses/${course.id}/pta`).send({})).status).toBe(400);

@@ -2,7 +2,8 @@ import type PgBoss from 'pg-boss';
 import type { Logger } from 'pino';
 import type { AppConfig } from '../config';
 import type { Db } from '../data-access/db';
-import { PTA_QUEUE, runPtaJob, type JobQueue } from '../domain/jobs/pta';
+import { createPtaPool, type PtaPool } from '@ebbtide/kinetics/node';
+import { PTA_QUEUE, runPtaJob, type JobQueue, type PtaRunner } from '../domain/jobs/pta';
 import { createJobQueue } from './queue';
 
 /**
@@ -12,6 +13,15 @@ import { createJobQueue } from './queue';
  * answer the client's polling.
  */
 const running = new Map<string, Promise<PgBoss>>();
+
+/** One worker-thread pool per process, started by the first large run. */
+let pool: PtaPool | null = null;
+const lazyPool: PtaRunner = {
+  run: (input) => {
+    pool ??= createPtaPool({ workers: 2 });
+    return pool.run(input);
+  },
+};
 
 async function start(
   config: Pick<AppConfig, 'databaseUrl'>,
@@ -35,7 +45,7 @@ export async function startPtaWorker(deps: { boss: PgBoss; db: Db }): Promise<vo
     PTA_QUEUE,
     { pollingIntervalSeconds: 0.5 },
     async (jobs) => {
-      for (const job of jobs) await runPtaJob(deps.db, job.data.jobId);
+      for (const job of jobs) await runPtaJob(deps.db, job.data.jobId, { pool: lazyPool });
     },
   );
 }
@@ -59,4 +69,7 @@ export async function stopPtaQueues(): Promise<void> {
   const all = [...running.values()];
   running.clear();
   await Promise.all(all.map(async (b) => (await b).stop({ graceful: true, wait: true })));
+  const p = pool;
+  pool = null;
+  await p?.close();
 }

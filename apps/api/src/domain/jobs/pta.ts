@@ -22,6 +22,13 @@ import type { CaseworkActor } from '../patients/common';
 export const PTA_QUEUE = 'engine-pta';
 /** The run is split into this many slices; progress is saved after each. */
 export const PTA_PROGRESS_SLICES = 20;
+/** From this many virtual patients a run goes to the worker-thread pool when one is available. */
+export const POOL_MIN_SAMPLES = 5000;
+
+/** What the job needs of a PTA worker pool. */
+export interface PtaRunner {
+  run(input: PtaInput): Promise<EnginePta>;
+}
 
 export interface JobQueue {
   send(queue: string, data: Record<string, unknown>): Promise<void>;
@@ -73,8 +80,13 @@ export async function getJob(db: Conn, actor: CaseworkActor, id: string): Promis
 export async function runPtaJob(
   db: Conn,
   jobId: string,
-  yieldToLoop: () => Promise<void> = () => new Promise((r) => setImmediate(r)),
+  options: {
+    /** Worker-thread pool for large runs (from @ebbtide/kinetics/node); same answer as the pure core. */
+    pool?: PtaRunner;
+    yieldToLoop?: () => Promise<void>;
+  } = {},
 ): Promise<void> {
+  const yieldToLoop = options.yieldToLoop ?? (() => new Promise<void>((r) => setImmediate(r)));
   const job = await findEngineJob(db, jobId);
   if (!job || job.state !== 'queued') return;
   await updateEngineJob(db, jobId, { state: 'running', progress: 0 });
@@ -141,18 +153,29 @@ export async function runPtaJob(
       seed: req.seed ?? 20261202,
       peakDelay: c.ctx.course.drug === 'vancomycin' ? 1 : 0.5,
     };
-    const parts: EnginePta[] = [];
-    const slices = ptaChunks(req.samples, Math.min(PTA_PROGRESS_SLICES, req.samples));
-    for (const [i, range] of slices.entries()) {
+    let merged: EnginePta;
+    if (options.pool && req.samples >= POOL_MIN_SAMPLES) {
+      // Large runs go to worker threads (the event loop stays free); progress moves in one step.
+      await updateEngineJob(db, jobId, { progress: 0.01 });
       try {
-        parts.push(probabilityOfTargetAttainment({ ...input, range }));
+        merged = await options.pool.run(input);
       } catch (error) {
         engineRefused(error);
       }
-      await updateEngineJob(db, jobId, { progress: (i + 1) / slices.length });
-      await yieldToLoop();
+    } else {
+      const parts: EnginePta[] = [];
+      const slices = ptaChunks(req.samples, Math.min(PTA_PROGRESS_SLICES, req.samples));
+      for (const [i, range] of slices.entries()) {
+        try {
+          parts.push(probabilityOfTargetAttainment({ ...input, range }));
+        } catch (error) {
+          engineRefused(error);
+        }
+        await updateEngineJob(db, jobId, { progress: (i + 1) / slices.length });
+        await yieldToLoop();
+      }
+      merged = mergePtaResults(parts);
     }
-    const merged = mergePtaResults(parts);
     const r = merged.regimens[0];
     if (!r) throw new Error('PTA returned no regimen');
     const result: PtaResult = {
