@@ -90,12 +90,15 @@ describe('GET /api/caseload', () => {
   });
 
   it('when a trainee opens the caseload, then no identifiable patient appears', async () => {
+    // Act
     const res = await trainee.get('/api/caseload?scope=all&pageSize=100');
+    // Assert
     expect(res.status).toBe(200);
     expect(res.body.items.every((i: Item) => i.patient.isTeaching)).toBe(true);
   });
 
   it('when the sort is unknown, then it answers 400; signed out, 401', async () => {
+    // Assert
     expect((await pharmacist.get('/api/caseload?sort=age')).status).toBe(400);
     expect((await anonymousAgent(app).get('/api/caseload')).status).toBe(401);
   });

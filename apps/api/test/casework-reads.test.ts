@@ -45,8 +45,11 @@ async function fullCourse() {
 
 describe('GET /api/courses/:id', () => {
   it('when a reviewer opens a course, then it comes back with its model version and target', async () => {
+    // Arrange
     const { course } = await fullCourse();
+    // Act
     const res = await reviewer.get(`/api/courses/${course.id}`);
+    // Assert
     expect(res.status).toBe(200);
     expect(res.body).toMatchObject({
       id: course.id,
@@ -59,10 +62,13 @@ describe('GET /api/courses/:id', () => {
 
 describe('GET /api/covariates/:id, /api/doses/:id, /api/levels/:id', () => {
   it('when each row is read by id, then it echoes its units', async () => {
+    // Arrange
     const { covariate, dose, levels } = await fullCourse();
+    // Act
     const c = await reviewer.get(`/api/covariates/${covariate.id}`);
     const d = await reviewer.get(`/api/doses/${dose.id}`);
     const l = await reviewer.get(`/api/levels/${levels[1].id}`);
+    // Assert
     expect(c.body.echo).toBe('97 µmol/L (1.1 mg/dL)');
     expect(d.body).toMatchObject({ echo: '1500 mg (1.5 g)', durationH: 1.5 });
     expect(l.body).toMatchObject({
@@ -82,8 +88,11 @@ describe('GET /api/covariates/:id, /api/doses/:id, /api/levels/:id', () => {
 
 describe('GET /api/courses/:id/levels', () => {
   it('when sorted by value descending, then the highest level comes first', async () => {
+    // Arrange
     const { course } = await fullCourse();
+    // Act
     const res = await reviewer.get(`/api/courses/${course.id}/levels?sort=valueMgL&order=desc`);
+    // Assert
     expect(res.body.total).toBe(2);
     expect(res.body.items.map((l: { valueMgL: number }) => l.valueMgL)).toEqual([31.2, 9.8]);
   });

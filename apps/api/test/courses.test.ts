@@ -56,7 +56,9 @@ describe('POST /api/patients/:id/courses', () => {
   });
 
   it('when the model belongs to another drug or does not exist, then it answers 400 on modelId', async () => {
+    // Arrange
     const p = await createRealPatient(pharmacist);
+    // Act
     const wrong = await pharmacist.post(`/api/patients/${p.id}/courses`).send({
       drug: 'gentamicin',
       modelId: TEST_MODELS.vancomycin,
@@ -69,13 +71,16 @@ describe('POST /api/patients/:id/courses', () => {
       indication: 'x',
       target: { metric: 'peak', low: 8, high: 10 },
     });
+    // Assert
     expect(wrong.status).toBe(400);
     expect(wrong.body.fieldErrors.modelId[0]).toMatch(/vancomycin model/);
     expect(missing.body.fieldErrors.modelId[0]).toMatch(/no drug model/);
   });
 
   it('when the target is inverted or the MIC is not positive, then it answers 400', async () => {
+    // Arrange
     const p = await createRealPatient(pharmacist);
+    // Act
     const res = await pharmacist.post(`/api/patients/${p.id}/courses`).send({
       drug: 'vancomycin',
       modelId: TEST_MODELS.vancomycin,
@@ -83,18 +88,22 @@ describe('POST /api/patients/:id/courses', () => {
       micMgL: 0,
       target: { metric: 'auc24', low: 600, high: 400 },
     });
+    // Assert
     expect(res.status).toBe(400);
     expect(Object.keys(res.body.fieldErrors)).toEqual(expect.arrayContaining(['micMgL', 'target']));
   });
 
   it('when a trainee creates a course, then it answers 403; when signed out, 401', async () => {
+    // Arrange
     const t = await createTeachingPatient(pharmacist);
+    // Act
     const body = {
       drug: 'vancomycin',
       modelId: TEST_MODELS.vancomycin,
       indication: 'x',
       target: { metric: 'auc24', low: 400, high: 600 },
     };
+    // Assert
     expect((await trainee.post(`/api/patients/${t.id}/courses`).send(body)).status).toBe(403);
     expect(
       (await anonymousAgent(app).post(`/api/patients/${t.id}/courses`).send(body)).status,
@@ -121,12 +130,15 @@ describe('GET /api/courses', () => {
   });
 
   it('when filtering by patient and drug, then only matching courses come back', async () => {
+    // Arrange
     const p = await createRealPatient(pharmacist);
     await createCourse(pharmacist, p.id, 'vancomycin');
     await createCourse(pharmacist, p.id, 'gentamicin', {
       target: { metric: 'peak-mic-ratio', low: 8, high: null },
     });
+    // Act
     const res = await reviewer.get(`/api/patients/${p.id}/courses?drug=gentamicin`);
+    // Assert
     expect(res.body.total).toBe(1);
     expect(res.body.items[0].drug).toBe('gentamicin');
   });
@@ -151,11 +163,14 @@ describe('PATCH /api/courses/:id', () => {
   });
 
   it('when an unknown field is sent, then it answers 400', async () => {
+    // Arrange
     const p = await createRealPatient(pharmacist);
     const c = await createCourse(pharmacist, p.id);
+    // Act
     const res = await pharmacist
       .patch(`/api/courses/${c.id}`)
       .send({ version: 1, drug: 'gentamicin' });
+    // Assert
     expect(res.status).toBe(400);
   });
 });

@@ -42,10 +42,13 @@ describe('POST /api/patients/:id/covariates', () => {
   });
 
   it('when 1.1 is labelled µmol/L, then it answers 400 saying it is almost certainly mg/dL', async () => {
+    // Arrange
     const p = await createRealPatient(pharmacist);
+    // Act
     const res = await pharmacist
       .post(`/api/patients/${p.id}/covariates`)
       .send({ kind: 'serum-creatinine', value: 1.1, unit: 'umol/L', observedAt: hoursAgo(2) });
+    // Assert
     expect(res.status).toBe(400);
     expect(res.body.fieldErrors.value[0]).toMatch(
       /almost certainly mg\/dL: 1.1 mg\/dL = 97.24 µmol\/L/,
@@ -54,13 +57,16 @@ describe('POST /api/patients/:id/covariates', () => {
   });
 
   it('when a height looks like metres or inches, then it answers 400 with a hint', async () => {
+    // Arrange
     const p = await createRealPatient(pharmacist);
+    // Act
     const metres = await pharmacist
       .post(`/api/patients/${p.id}/covariates`)
       .send({ kind: 'height', value: 1.75, unit: 'cm', observedAt: hoursAgo(1) });
     const inches = await pharmacist
       .post(`/api/patients/${p.id}/covariates`)
       .send({ kind: 'height', value: 69, unit: 'cm', observedAt: hoursAgo(1) });
+    // Assert
     expect(metres.status).toBe(400);
     expect(metres.body.fieldErrors.value[0]).toMatch(/looks like metres: 1.75 m = 175 cm/);
     expect(inches.status).toBe(400);
@@ -68,7 +74,9 @@ describe('POST /api/patients/:id/covariates', () => {
   });
 
   it('when a weight is outside 0.3–350 kg or has no source, then it answers 400', async () => {
+    // Arrange
     const p = await createRealPatient(pharmacist);
+    // Act
     const heavy = await pharmacist.post(`/api/patients/${p.id}/covariates`).send({
       kind: 'weight',
       value: 400,
@@ -79,13 +87,16 @@ describe('POST /api/patients/:id/covariates', () => {
     const noSource = await pharmacist
       .post(`/api/patients/${p.id}/covariates`)
       .send({ kind: 'weight', value: 80, unit: 'kg', observedAt: hoursAgo(1) });
+    // Assert
     expect(heavy.status).toBe(400);
     expect(heavy.body.fieldErrors.value[0]).toMatch(/0.3–350 kg/);
     expect(noSource.body.fieldErrors.weightSource).toBeDefined();
   });
 
   it('when a weight is given in pounds, then it is converted and echoed', async () => {
+    // Arrange
     const p = await createRealPatient(pharmacist);
+    // Act
     const res = await pharmacist.post(`/api/patients/${p.id}/covariates`).send({
       kind: 'weight',
       value: 176,
@@ -93,42 +104,55 @@ describe('POST /api/patients/:id/covariates', () => {
       weightSource: 'stated',
       observedAt: hoursAgo(1),
     });
+    // Assert
     expect(res.status).toBe(201);
     expect(res.body.canonicalValue).toBeCloseTo(79.83, 2);
     expect(res.body.echo).toBe('176 lb (79.83 kg)');
   });
 
   it('when the unit is unknown or the time is in the future, then it answers 400 on those fields', async () => {
+    // Arrange
     const p = await createRealPatient(pharmacist);
+    // Act
     const res = await pharmacist
       .post(`/api/patients/${p.id}/covariates`)
       .send({ kind: 'albumin', value: 30, unit: 'mmol/L', observedAt: hoursAgo(-5) });
+    // Assert
     expect(res.status).toBe(400);
     expect(res.body.fieldErrors.unit[0]).toMatch(/unknown albumin unit/);
     expect(res.body.fieldErrors.observedAt[0]).toMatch(/future/);
   });
 
   it('when the same observation is entered twice, then the second is refused as a duplicate', async () => {
+    // Arrange
     const p = await createRealPatient(pharmacist);
     const body = { kind: 'height', value: 172, unit: 'cm', observedAt: hoursAgo(3) };
     await pharmacist.post(`/api/patients/${p.id}/covariates`).send(body).expect(201);
+    // Act
     const res = await pharmacist.post(`/api/patients/${p.id}/covariates`).send(body);
+    // Assert
     expect(res.status).toBe(400);
     expect(res.body.fieldErrors.observedAt[0]).toMatch(/duplicate/);
   });
 
   it('when a teaching patient gets a real date, then it answers 400 asking for hours', async () => {
+    // Arrange
     const t = await createTeachingPatient(pharmacist);
+    // Act
     const res = await pharmacist
       .post(`/api/patients/${t.id}/covariates`)
       .send({ kind: 'height', value: 172, unit: 'cm', observedAt: hoursAgo(3) });
+    // Assert
     expect(res.status).toBe(400);
     expect(res.body.fieldErrors.observedAt[0]).toMatch(/teaching cases have no real dates/);
   });
 
   it('when a trainee writes a covariate, then it answers 403; when signed out, 401', async () => {
+    // Arrange
     const t = await createTeachingPatient(pharmacist);
+    // Act
     const body = { kind: 'height', value: 172, unit: 'cm', observedHour: -2 };
+    // Assert
     expect((await trainee.post(`/api/patients/${t.id}/covariates`).send(body)).status).toBe(403);
     expect(
       (await anonymousAgent(app).post(`/api/patients/${t.id}/covariates`).send(body)).status,
@@ -160,12 +184,15 @@ describe('PATCH /api/covariates/:id', () => {
 
 describe('DELETE /api/covariates/:id', () => {
   it('when the version matches, then the row is removed and the removal audited', async () => {
+    // Arrange
     const p = await createRealPatient(pharmacist);
+    // Act
     const c = await pharmacist.post(`/api/patients/${p.id}/covariates`).send({
       kind: 'dialysis',
       dialysisStatus: 'intermittent-haemodialysis',
       observedAt: hoursAgo(4),
     });
+    // Assert
     expect(c.body.echo).toBe('dialysis: intermittent-haemodialysis');
     const res = await pharmacist.delete(`/api/covariates/${c.body.id}?version=1`);
     expect(res.status).toBe(204);
@@ -179,11 +206,14 @@ describe('DELETE /api/covariates/:id', () => {
 
 describe('GET /api/patients/:id/covariates', () => {
   it('when a trainee lists a real patient’s covariates, then it answers 404', async () => {
+    // Act
     const p = await createRealPatient(pharmacist);
+    // Assert
     expect((await trainee.get(`/api/patients/${p.id}/covariates`)).status).toBe(404);
   });
 
   it('when listing with a kind filter, then only that kind comes back, paginated', async () => {
+    // Arrange
     const p = await createRealPatient(pharmacist);
     await pharmacist
       .post(`/api/patients/${p.id}/covariates`)
@@ -199,7 +229,9 @@ describe('GET /api/patients/:id/covariates', () => {
         observedAt: hoursAgo(5),
       })
       .expect(201);
+    // Act
     const res = await pharmacist.get(`/api/patients/${p.id}/covariates?kind=weight`);
+    // Assert
     expect(res.body).toMatchObject({ total: 1, page: 1 });
     expect(res.body.items[0].kind).toBe('weight');
   });
@@ -272,6 +304,7 @@ describe('GET /api/patients/:id/derived', () => {
   });
 
   it('when creatinine rose by more than 26.5 µmol/L within 48 h, then it warns of unstable renal function', async () => {
+    // Arrange
     const p = await createRealPatient(pharmacist);
     await pharmacist
       .post(`/api/patients/${p.id}/covariates`)
@@ -281,7 +314,9 @@ describe('GET /api/patients/:id/derived', () => {
       .post(`/api/patients/${p.id}/covariates`)
       .send({ kind: 'serum-creatinine', value: 120, unit: 'umol/L', observedAt: hoursAgo(2) })
       .expect(201);
+    // Act
     const res = await pharmacist.get(`/api/patients/${p.id}/derived`);
+    // Assert
     expect(res.body.warnings.map((w: { code: string }) => w.code)).toContain(
       'unstable-renal-function',
     );

@@ -58,7 +58,9 @@ describe('POST /api/courses/:id/doses', () => {
   });
 
   it('when 1.5 "mg" of vancomycin is typed, then it answers 400 suggesting 1.5 g = 1500 mg and saves nothing', async () => {
+    // Arrange
     const c = await vancoCourse();
+    // Act
     const res = await pharmacist.post(`/api/courses/${c.id}/doses`).send({
       amount: 1.5,
       unit: 'mg',
@@ -66,13 +68,16 @@ describe('POST /api/courses/:id/doses', () => {
       startAt: hoursAgo(3),
       infusionMinutes: 90,
     });
+    // Assert
     expect(res.status).toBe(400);
     expect(res.body.fieldErrors.amount[0]).toMatch(/looks like grams: 1.5 g = 1500 mg/);
     expect(await db('doses').where({ course_id: c.id })).toHaveLength(0);
   });
 
   it('when 1000 "g" is typed, then it answers 400 suggesting milligrams', async () => {
+    // Arrange
     const c = await vancoCourse();
+    // Act
     const res = await pharmacist.post(`/api/courses/${c.id}/doses`).send({
       amount: 1000,
       unit: 'g',
@@ -80,23 +85,29 @@ describe('POST /api/courses/:id/doses', () => {
       startAt: hoursAgo(3),
       infusionMinutes: 60,
     });
+    // Assert
     expect(res.status).toBe(400);
     expect(res.body.fieldErrors.amount[0]).toMatch(/did you mean 1000 mg/);
   });
 
   it('when the end time is given instead of the duration, then the duration is derived', async () => {
+    // Arrange
     const c = await vancoCourse();
     const startAt = hoursAgo(5);
     const endAt = new Date(Date.parse(startAt) + 90 * 60_000).toISOString();
+    // Act
     const res = await pharmacist
       .post(`/api/courses/${c.id}/doses`)
       .send({ amount: 1250, unit: 'mg', route: 'iv-infusion', startAt, endAt });
+    // Assert
     expect(res.status).toBe(201);
     expect(res.body.durationH).toBe(1.5);
   });
 
   it('when an infusion has no duration, ends before it starts, or the time is in the future, then it answers 400 per field', async () => {
+    // Arrange
     const c = await vancoCourse();
+    // Act
     const noDuration = await pharmacist
       .post(`/api/courses/${c.id}/doses`)
       .send({ amount: 1000, unit: 'mg', route: 'iv-infusion', startAt: hoursAgo(3) });
@@ -114,14 +125,17 @@ describe('POST /api/courses/:id/doses', () => {
       startAt: hoursAgo(-2),
       infusionMinutes: 60,
     });
+    // Assert
     expect(noDuration.body.fieldErrors.infusionMinutes[0]).toMatch(/duration/);
     expect(backwards.body.fieldErrors.endAt[0]).toMatch(/end after it starts/);
     expect(future.body.fieldErrors.startAt[0]).toMatch(/future/);
   });
 
   it('when the dose is before the course start, then it answers 400', async () => {
+    // Arrange
     const p = await createRealPatient(pharmacist);
     const c = await createCourse(pharmacist, p.id, 'vancomycin', { startedAt: hoursAgo(24) });
+    // Act
     const res = await pharmacist.post(`/api/courses/${c.id}/doses`).send({
       amount: 1000,
       unit: 'mg',
@@ -129,11 +143,13 @@ describe('POST /api/courses/:id/doses', () => {
       startAt: hoursAgo(30),
       infusionMinutes: 60,
     });
+    // Assert
     expect(res.status).toBe(400);
     expect(res.body.fieldErrors.startAt[0]).toMatch(/before the course began/);
   });
 
   it('when the same dose time is entered twice, then the second is refused as a duplicate', async () => {
+    // Arrange
     const c = await vancoCourse();
     const body = {
       amount: 1000,
@@ -143,13 +159,17 @@ describe('POST /api/courses/:id/doses', () => {
       infusionMinutes: 60,
     };
     await pharmacist.post(`/api/courses/${c.id}/doses`).send(body).expect(201);
+    // Act
     const res = await pharmacist.post(`/api/courses/${c.id}/doses`).send(body);
+    // Assert
     expect(res.status).toBe(400);
     expect(res.body.fieldErrors.startAt[0]).toMatch(/duplicate/);
   });
 
   it('when a missed dose is recorded, then it is kept with its status', async () => {
+    // Arrange
     const c = await vancoCourse();
+    // Act
     const res = await pharmacist.post(`/api/courses/${c.id}/doses`).send({
       amount: 1000,
       unit: 'mg',
@@ -158,16 +178,20 @@ describe('POST /api/courses/:id/doses', () => {
       infusionMinutes: 60,
       administrationStatus: 'missed',
     });
+    // Assert
     expect(res.status).toBe(201);
     expect(res.body.administrationStatus).toBe('missed');
   });
 
   it('when a teaching course gets a dose, then it is in hours from the first dose; a trainee cannot add one', async () => {
+    // Arrange
     const t = await createTeachingPatient(pharmacist);
     const c = await createCourse(pharmacist, t.id);
+    // Act
     const ok = await pharmacist
       .post(`/api/courses/${c.id}/doses`)
       .send({ amount: 1000, unit: 'mg', route: 'iv-infusion', startHour: 0, infusionMinutes: 60 });
+    // Assert
     expect(ok.status).toBe(201);
     expect(ok.body).toMatchObject({ startAt: null, startHour: 0, endHour: 1 });
     const denied = await trainee
@@ -213,7 +237,9 @@ describe('POST /api/courses/:id/doses', () => {
   });
 
   it('when signed out, then it answers 401', async () => {
+    // Act
     const c = await vancoCourse();
+    // Assert
     expect((await anonymousAgent(app).post(`/api/courses/${c.id}/doses`).send({})).status).toBe(
       401,
     );
@@ -222,7 +248,9 @@ describe('POST /api/courses/:id/doses', () => {
 
 describe('PATCH /api/doses/:id', () => {
   it('when the version matches, then the amount changes and the audit keeps before and after', async () => {
+    // Arrange
     const c = await vancoCourse();
+    // Act
     const d = await pharmacist.post(`/api/courses/${c.id}/doses`).send({
       amount: 1000,
       unit: 'mg',
@@ -233,6 +261,7 @@ describe('PATCH /api/doses/:id', () => {
     const res = await reviewer
       .patch(`/api/doses/${d.body.id}`)
       .send({ version: 1, amount: 1250, administrationStatus: 'partial' });
+    // Assert
     expect(res.status).toBe(200);
     expect(res.body).toMatchObject({
       amountMg: 1250,
@@ -247,6 +276,7 @@ describe('PATCH /api/doses/:id', () => {
   });
 
   it('when the version is stale, then it answers 409 with both versions and nothing is overwritten', async () => {
+    // Arrange
     const c = await vancoCourse();
     const d = await pharmacist.post(`/api/courses/${c.id}/doses`).send({
       amount: 1000,
@@ -256,7 +286,9 @@ describe('PATCH /api/doses/:id', () => {
       infusionMinutes: 60,
     });
     await reviewer.patch(`/api/doses/${d.body.id}`).send({ version: 1, amount: 1250 }).expect(200);
+    // Act
     const res = await pharmacist.patch(`/api/doses/${d.body.id}`).send({ version: 1, amount: 750 });
+    // Assert
     expect(res.status).toBe(409);
     expect(res.body.current.amountMg).toBe(1250);
     expect(res.body.yours.amount).toBe(750);
@@ -266,7 +298,9 @@ describe('PATCH /api/doses/:id', () => {
 
 describe('PATCH /api/doses/:id (partial update)', () => {
   it('when only the note is sent, then a missed dose stays missed', async () => {
+    // Arrange
     const c = await vancoCourse();
+    // Act
     const d = await pharmacist.post(`/api/courses/${c.id}/doses`).send({
       amount: 1000,
       unit: 'mg',
@@ -278,6 +312,7 @@ describe('PATCH /api/doses/:id (partial update)', () => {
     const res = await pharmacist
       .patch(`/api/doses/${d.body.id}`)
       .send({ version: 1, note: 'no IV access' });
+    // Assert
     expect(res.status).toBe(200);
     expect(res.body).toMatchObject({
       administrationStatus: 'missed',
@@ -289,6 +324,7 @@ describe('PATCH /api/doses/:id (partial update)', () => {
 
 describe('DELETE /api/doses/:id', () => {
   it('when the version is stale, then it answers 409 and the dose stays; with the current version it is removed', async () => {
+    // Arrange
     const c = await vancoCourse();
     const d = await pharmacist.post(`/api/courses/${c.id}/doses`).send({
       amount: 1000,
@@ -297,10 +333,12 @@ describe('DELETE /api/doses/:id', () => {
       startAt: hoursAgo(12),
       infusionMinutes: 60,
     });
+    // Act
     await pharmacist
       .patch(`/api/doses/${d.body.id}`)
       .send({ version: 1, note: 'checked against the MAR' })
       .expect(200);
+    // Assert
     expect((await pharmacist.delete(`/api/doses/${d.body.id}?version=1`)).status).toBe(409);
     expect(await db('doses').where({ id: d.body.id }).first()).toBeDefined();
     expect((await pharmacist.delete(`/api/doses/${d.body.id}?version=2`)).status).toBe(204);
@@ -310,6 +348,7 @@ describe('DELETE /api/doses/:id', () => {
 
 describe('GET /api/courses/:id/doses', () => {
   it('when sorted by start descending, then the latest dose comes first', async () => {
+    // Arrange
     const c = await vancoCourse();
     for (const h of [36, 24, 12]) {
       await pharmacist
@@ -323,7 +362,9 @@ describe('GET /api/courses/:id/doses', () => {
         })
         .expect(201);
     }
+    // Act
     const res = await pharmacist.get(`/api/courses/${c.id}/doses?sort=start&order=desc&pageSize=2`);
+    // Assert
     expect(res.body.total).toBe(3);
     expect(res.body.items).toHaveLength(2);
     expect(Date.parse(res.body.items[0].startAt)).toBeGreaterThan(

@@ -20,7 +20,9 @@ const newId = () =>
 
 describe('GET /api/drug-models', () => {
   it('when a pharmacist lists the library, then the engine models are there with their version', async () => {
+    // Act
     const res = await pharmacist.get('/api/drug-models?pageSize=100');
+    // Assert
     expect(res.status).toBe(200);
     const ids = res.body.items.map((m: { id: string }) => m.id);
     expect(ids).toEqual(expect.arrayContaining(Object.values(TEST_MODELS)));
@@ -31,6 +33,7 @@ describe('GET /api/drug-models', () => {
   });
 
   it('when signed out, then it answers 401', async () => {
+    // Assert
     expect((await anonymousAgent(app).get('/api/drug-models')).status).toBe(401);
   });
 });
@@ -64,7 +67,9 @@ describe('POST /api/drug-models', () => {
   });
 
   it('when the definition fails the engine validator, then it answers 400 listing the problems and stores nothing', async () => {
+    // Arrange
     const id = newId();
+    // Act
     const res = await admin.post('/api/drug-models').send({
       id,
       drug: 'vancomycin',
@@ -77,13 +82,16 @@ describe('POST /api/drug-models', () => {
       },
       plausibleSingleDoseMg: { min: 250, max: 4000 },
     });
+    // Assert
     expect(res.status).toBe(400);
     expect(res.body.fieldErrors.definition.join(' ')).toMatch(/structure/);
     expect(await db('drug_models').where({ id })).toHaveLength(0);
   });
 
   it('when a pharmacist tries to add a model, then it answers 403', async () => {
+    // Act
     const res = await pharmacist.post('/api/drug-models').send({});
+    // Assert
     expect(res.status).toBe(403);
   });
 });

@@ -91,21 +91,27 @@ describe('POST /api/courses/:id/simulate', () => {
   });
 
   it('when a regimen is simulated to steady state, then AUC24 matches daily dose / CL', async () => {
+    // Arrange
     // Source: pk-reference A7, identity at steady state for linear PK: AUC24,ss = F·daily dose / CL
     // (Gibaldi M, Perrier D. Pharmacokinetics, 2nd ed., 1982 — from memory).
     const { course } = await vancomycinCase({ levels: false });
+    // Act
     const res = await pharmacist.post(`/api/courses/${course.id}/simulate`).send({
       parameters: 'population',
       regimen: { doseMg: 1000, intervalH: 12, infusionH: 1, count: 40 },
     });
+    // Assert
     expect(res.status).toBe(200);
     const expected = 2000 / res.body.parameters.CL;
     expect(Math.abs(res.body.exposure.auc24 - expected) / expected).toBeLessThan(0.01);
   });
 
   it('when the step is out of range, then it answers 400; signed out, 401', async () => {
+    // Arrange
     const { course } = await vancomycinCase({ levels: false });
+    // Act
     const res = await pharmacist.post(`/api/courses/${course.id}/simulate`).send({ stepH: 0 });
+    // Assert
     expect(res.status).toBe(400);
     expect(res.body.fieldErrors.stepH).toBeDefined();
     expect(
@@ -114,9 +120,12 @@ describe('POST /api/courses/:id/simulate', () => {
   });
 
   it('when a covariate the model needs is missing, then it answers 422 naming it', async () => {
+    // Arrange
     const p = await createRealPatient(pharmacist);
     const c = await createCourse(pharmacist, p.id, 'vancomycin');
+    // Act
     const res = await pharmacist.post(`/api/courses/${c.id}/simulate`).send({});
+    // Assert
     expect(res.status).toBe(422);
     expect(res.body.code).toBe('missing-covariates');
     expect(res.body.message).toMatch(/CRCL/);
@@ -148,8 +157,11 @@ describe('POST /api/courses/:id/simulate', () => {
 
 describe('POST /api/courses/:id/fit', () => {
   it('when fitting by MAP, then individual and population predictions, shrinkage and the caution come back', async () => {
+    // Arrange
     const { course } = await vancomycinCase();
+    // Act
     const res = await pharmacist.post(`/api/courses/${course.id}/fit`).send({ method: 'map' });
+    // Assert
     expect(res.status).toBe(200);
     expect(res.body).toMatchObject({ method: 'map', levelsUsed: 2 });
     expect(res.body.caution).toMatch(CAUTION_PATTERN);
@@ -162,10 +174,13 @@ describe('POST /api/courses/:id/fit', () => {
   });
 
   it('when fitting by the two-level method, then k, V, CL and half-life come from the two post-distribution levels', async () => {
+    // Arrange
     const { course } = await vancomycinCase();
+    // Act
     const res = await pharmacist
       .post(`/api/courses/${course.id}/fit`)
       .send({ method: 'two-level' });
+    // Assert
     expect(res.status).toBe(200);
     // Source: Sawchuk RJ, Zaske DE. J Pharmacokinet Biopharm 1976;4:183 — k = ln(C1/C2)/(t2 − t1).
     // Tolerance: the test's timestamps are taken a few ms apart, so the 9 h spacing is exact only to ~1e-5 h.
@@ -178,17 +193,22 @@ describe('POST /api/courses/:id/fit', () => {
   });
 
   it('when one level is dropped, then the fit reports a single level', async () => {
+    // Arrange
     const { course } = await vancomycinCase();
+    // Act
     const levels = await pharmacist.get(`/api/courses/${course.id}/levels`);
     const res = await pharmacist
       .post(`/api/courses/${course.id}/fit`)
       .send({ method: 'map', excludeLevelIds: [levels.body.items[0].id] });
+    // Assert
     expect(res.body.levelsUsed).toBe(1);
     expect(res.body.warnings.map((w: { code: string }) => w.code)).toContain('single-level');
   });
 
   it('when there are no levels, then MAP answers 422 and population-only answers 200', async () => {
+    // Act
     const { course } = await vancomycinCase({ levels: false });
+    // Assert
     expect(
       (await pharmacist.post(`/api/courses/${course.id}/fit`).send({ method: 'map' })).status,
     ).toBe(422);
@@ -200,7 +220,9 @@ describe('POST /api/courses/:id/fit', () => {
   });
 
   it('when the method is unknown, then it answers 400', async () => {
+    // Act
     const { course } = await vancomycinCase({ levels: false });
+    // Assert
     expect(
       (await pharmacist.post(`/api/courses/${course.id}/fit`).send({ method: 'guess' })).status,
     ).toBe(400);
@@ -209,8 +231,11 @@ describe('POST /api/courses/:id/fit', () => {
 
 describe('POST /api/courses/:id/level-validity', () => {
   it('when levels are checked, then each gets a verdict with reasons and its time after the infusion end', async () => {
+    // Arrange
     const { course } = await vancomycinCase();
+    // Act
     const res = await pharmacist.post(`/api/courses/${course.id}/level-validity`).send({});
+    // Assert
     expect(res.status).toBe(200);
     expect(res.body.levels).toHaveLength(2);
     // Tolerance: timestamps a few ms apart.
@@ -223,10 +248,13 @@ describe('POST /api/courses/:id/level-validity', () => {
 
 describe('POST /api/courses/:id/regimens', () => {
   it('when searching for the course target, then ranked regimens and a suggestion meeting AUC24 400–600 come back', async () => {
+    // Arrange
     const { course } = await vancomycinCase();
+    // Act
     const res = await pharmacist
       .post(`/api/courses/${course.id}/regimens`)
       .send({ parameters: 'map' });
+    // Assert
     expect(res.status).toBe(200);
     expect(res.body.caution).toMatch(CAUTION_PATTERN);
     expect(res.body.target).toEqual({ metric: 'auc24', low: 400, high: 600 });
@@ -282,10 +310,13 @@ describe('POST /api/courses/:id/regimens (phenytoin)', () => {
 
 describe('POST /api/courses/:id/sampling', () => {
   it('when asking when to draw after a planned regimen, then ranked draw times with predicted values and the caution come back', async () => {
+    // Arrange
     const { course } = await vancomycinCase();
+    // Act
     const res = await pharmacist
       .post(`/api/courses/${course.id}/sampling`)
       .send({ regimen: { doseMg: 1250, intervalH: 12, infusionH: 1.5, count: 4 } });
+    // Assert
     expect(res.status).toBe(200);
     expect(res.body.caution).toMatch(CAUTION_PATTERN);
     expect(res.body.bestPair.draws).toHaveLength(2);
@@ -364,7 +395,9 @@ describe('POST /api/courses/:id/pta and GET /api/jobs/:id', () => {
   });
 
   it('when a large run is requested, then it goes to the worker-thread pool and completes', async () => {
+    // Arrange
     const { course } = await vancomycinCase();
+    // Act
     const accepted = await pharmacist.post(`/api/courses/${course.id}/pta`).send({
       regimen: { doseMg: 1000, intervalH: 12, infusionH: 1 },
       parameters: 'population',
@@ -376,13 +409,16 @@ describe('POST /api/courses/:id/pta and GET /api/jobs/:id', () => {
       await new Promise((r) => setTimeout(r, 250));
       job = (await pharmacist.get(accepted.body.statusUrl)).body;
     }
+    // Assert
     expect(job.error).toBeNull();
     expect(job.state).toBe('completed');
     expect(job.result.samples).toBe(6000);
   }, 60_000);
 
   it('when the regimen is missing, then it answers 400', async () => {
+    // Act
     const { course } = await vancomycinCase({ levels: false });
+    // Assert
     expect((await pharmacist.post(`/api/courses/${course.id}/pta`).send({})).status).toBe(400);
   });
 });

@@ -64,10 +64,13 @@ describe('POST /api/imports/fhir', () => {
   });
 
   it('when the bundle is committed, then doses, levels and covariates land with effective[x] as the sample time, never issued', async () => {
+    // Arrange
     const { mrn, patient, course } = await patientWithCourse();
+    // Act
     const res = await pharmacist
       .post('/api/imports/fhir')
       .send({ bundle: bundle('vancomycin-course-bundle.json', mrn), mode: 'commit' });
+    // Assert
     expect(res.status).toBe(201);
     const doses = await db('doses').where({ course_id: course.id }).orderBy('start_at');
     expect(doses).toHaveLength(4);
@@ -114,15 +117,18 @@ describe('POST /api/imports/fhir', () => {
   });
 
   it('when a level in the bundle was drawn during an infusion, then it is refused with the reason', async () => {
+    // Arrange
     const { mrn } = await patientWithCourse();
     const b = bundle('vancomycin-course-bundle.json', mrn);
     const trough = b.entry.find((e) => e.resource.id === 'kb-obs-trough');
     (trough as { resource: Record<string, unknown> }).resource.effectiveDateTime =
       '2026-11-28T08:30:00Z';
     const res = await pharmacist.post('/api/imports/fhir').send({ bundle: b });
+    // Act
     const entry = res.body.entries.find(
       (e: { resource: string }) => e.resource === 'Observation/kb-obs-trough',
     );
+    // Assert
     expect(entry.status).toBe('refused');
     expect(entry.reasons.join(' ')).toMatch(/during the infusion/);
   });
@@ -150,6 +156,7 @@ describe('POST /api/imports/fhir', () => {
   });
 
   it('when the body is not a Bundle, then it answers 400; a trainee gets 403', async () => {
+    // Assert
     expect(
       (await pharmacist.post('/api/imports/fhir').send({ bundle: { resourceType: 'Patient' } }))
         .status,

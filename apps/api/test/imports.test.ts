@@ -66,11 +66,14 @@ describe('POST /api/courses/:id/imports/csv', () => {
   });
 
   it('when the dose file is committed, then every row is saved with source csv and audited', async () => {
+    // Arrange
     const c = await vancoCourse();
+    // Act
     const res = await upload(pharmacist, c.id, fixture('vancomycin-doses.csv'), {
       kind: 'doses',
       mode: 'commit',
     });
+    // Assert
     expect(res.status).toBe(201);
     expect(res.body.createdIds).toHaveLength(4);
     const rows = await db('doses').where({ course_id: c.id }).orderBy('start_at');
@@ -161,8 +164,10 @@ describe('POST /api/courses/:id/imports/csv', () => {
   });
 
   it('when the mapping names columns explicitly, then they are used; a required field left unmapped is reported', async () => {
+    // Arrange
     const c = await vancoCourse();
     const csv = ['When,Amt,U,How', `${hoursAgo(6)},1000,mg,iv-bolus`].join('\n');
+    // Act
     const mapped = await upload(pharmacist, c.id, csv, {
       kind: 'doses',
       mapping: JSON.stringify({ start: 'When', amount: 'Amt', unit: 'U', route: 'How' }),
@@ -171,27 +176,34 @@ describe('POST /api/courses/:id/imports/csv', () => {
       kind: 'doses',
       mapping: JSON.stringify({ start: 'When', amount: 'Amt' }),
     });
+    // Assert
     expect(mapped.body.acceptedCount).toBe(1);
     expect(unmapped.body.missingFields).toEqual(['unit', 'route']);
     expect(unmapped.body.rows[0].status).toBe('refused');
   });
 
   it('when the file or the kind is missing, or the mapping is not JSON, then it answers 400 per field', async () => {
+    // Arrange
     const c = await vancoCourse();
+    // Act
     const noFile = await pharmacist.post(`/api/courses/${c.id}/imports/csv`).field('kind', 'doses');
     const noKind = await upload(pharmacist, c.id, 'a,b\n1,2', {});
     const badMapping = await upload(pharmacist, c.id, 'a,b\n1,2', {
       kind: 'doses',
       mapping: '{oops',
     });
+    // Assert
     expect(noFile.body.fieldErrors.file).toBeDefined();
     expect(noKind.body.fieldErrors.kind).toBeDefined();
     expect(badMapping.body.fieldErrors.mapping).toBeDefined();
   });
 
   it('when a trainee uploads, then it answers 403; signed out, 401', async () => {
+    // Arrange
     const t = await createTeachingPatient(pharmacist);
+    // Act
     const c = await createCourse(pharmacist, t.id);
+    // Assert
     expect((await upload(trainee, c.id, 'start\n0', { kind: 'doses' })).status).toBe(403);
     const anon = await anonymousAgent(app)
       .post(`/api/courses/${c.id}/imports/csv`)

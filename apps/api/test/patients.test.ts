@@ -129,12 +129,16 @@ describe('POST /api/patients', () => {
   });
 
   it('when nobody is signed in, then it answers 401', async () => {
+    // Act
     const res = await anonymousAgent(app).post('/api/patients').send({});
+    // Assert
     expect(res.status).toBe(401);
   });
 
   it('when a trainee or an admin tries to create a patient, then it answers 403', async () => {
+    // Act
     const body = { isTeaching: true, teachingLabel: 'Mine', sex: 'male', ageYears: 40 };
+    // Assert
     expect((await trainee.post('/api/patients').send(body)).status).toBe(403);
     expect((await admin.post('/api/patients').send(body)).status).toBe(403);
   });
@@ -142,8 +146,11 @@ describe('POST /api/patients', () => {
 
 describe('GET /api/patients/:id', () => {
   it('when a pharmacist asks for a real patient, then it is returned', async () => {
+    // Arrange
     const p = await createRealPatient(pharmacist);
+    // Act
     const res = await reviewer.get(`/api/patients/${p.id}`);
+    // Assert
     expect(res.status).toBe(200);
     expect(res.body.mrn).toBe(p.mrn);
   });
@@ -159,19 +166,26 @@ describe('GET /api/patients/:id', () => {
   });
 
   it('when a trainee asks for a teaching patient, then it is returned', async () => {
+    // Arrange
     const t = await createTeachingPatient(pharmacist);
+    // Act
     const res = await trainee.get(`/api/patients/${t.id}`);
+    // Assert
     expect(res.status).toBe(200);
     expect(res.body.isTeaching).toBe(true);
   });
 
   it('when an admin asks for a patient, then it answers 403', async () => {
+    // Act
     const t = await createTeachingPatient(pharmacist);
+    // Assert
     expect((await admin.get(`/api/patients/${t.id}`)).status).toBe(403);
   });
 
   it('when the id is not a uuid, then it answers 400', async () => {
+    // Act
     const res = await pharmacist.get('/api/patients/not-a-uuid');
+    // Assert
     expect(res.status).toBe(400);
     expect(res.body.fieldErrors.id).toBeDefined();
   });
@@ -215,7 +229,9 @@ describe('GET /api/patients', () => {
   });
 
   it('when the sort field is unknown, then it answers 400', async () => {
+    // Act
     const res = await pharmacist.get('/api/patients?sort=password');
+    // Assert
     expect(res.status).toBe(400);
     expect(res.body.fieldErrors.sort).toBeDefined();
   });
@@ -257,17 +273,23 @@ describe('PATCH /api/patients/:id', () => {
   });
 
   it('when a teaching patient is given a name, then it answers 400', async () => {
+    // Arrange
     const t = await createTeachingPatient(pharmacist);
+    // Act
     const res = await pharmacist
       .patch(`/api/patients/${t.id}`)
       .send({ version: 1, familyName: 'Real' });
+    // Assert
     expect(res.status).toBe(400);
     expect(res.body.fieldErrors.familyName).toBeDefined();
   });
 
   it('when a trainee edits a teaching patient, then it answers 403 and nothing changes', async () => {
+    // Arrange
     const t = await createTeachingPatient(pharmacist);
+    // Act
     const res = await trainee.patch(`/api/patients/${t.id}`).send({ version: 1, ward: 'ICU' });
+    // Assert
     expect(res.status).toBe(403);
     expect((await db('patients').where({ id: t.id }).first()).version).toBe(1);
   });
