@@ -93,7 +93,7 @@ export const fitResponseSchema = engineMetaSchema.extend({
   method: estimationMethodSchema,
   parameters: z.record(z.string(), z.number()),
   populationParameters: z.record(z.string(), z.number()),
-  /** Approximate relative standard error or 95% interval per parameter when the method gives one. */
+  /** Approximate relative standard error or 90% interval per parameter when the method gives one. */
   uncertainty: z.record(z.string(), z.object({ low: z.number(), high: z.number() })).nullable(),
   /** Per-parameter shrinkage toward the prior, 0..1, when the method gives one. */
   shrinkage: z.record(z.string(), z.number()).nullable(),

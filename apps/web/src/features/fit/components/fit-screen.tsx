@@ -118,7 +118,7 @@ function ParametersTable({
         <tr>
           <th scope="col">Parameter</th>
           <th scope="col">Estimate</th>
-          <th scope="col">95% interval</th>
+          <th scope="col">90% interval</th>
           <th scope="col">Population</th>
           <th scope="col">Shrinkage</th>
           {compare && <th scope="col">{compareLabel}</th>}
@@ -274,7 +274,7 @@ export function FitScreen() {
                   <Legend wrapperStyle={{ fontSize: 11 }} />
                   <Area
                     dataKey="band"
-                    name="Approx. 95% band"
+                    name="Approx. 90% band"
                     stroke="none"
                     fill="#1f6f7a"
                     fillOpacity={0.15}
@@ -317,7 +317,7 @@ export function FitScreen() {
                 </ComposedChart>
               </ResponsiveContainer>
               <figcaption className="text-xs text-slate-500">
-                The band is approximate: the fitted curve at the ends of the 95% intervals of CL and
+                The band is approximate: the fitted curve at the ends of the 90% intervals of CL and
                 V1.
               </figcaption>
             </figure>
