@@ -160,9 +160,25 @@ const router = createBrowserRouter([
         path: paths.drugModels.path,
         element: (
           <RequireRole allow={SCREEN_ACCESS.drugModels}>
-            <ScreenPending title="Drug models" arrives="it comes with the kinetics engine." />
+            <Outlet />
           </RequireRole>
         ),
+        children: [
+          {
+            index: true,
+            lazy: () =>
+              import('../features/drug-models/components/drug-models-screen').then((m) => ({
+                Component: m.DrugModelsScreen,
+              })),
+          },
+          {
+            path: ':modelId',
+            lazy: () =>
+              import('../features/drug-models/components/drug-model-screen').then((m) => ({
+                Component: m.DrugModelScreen,
+              })),
+          },
+        ],
       },
       {
         path: paths.audit.path,

@@ -37,6 +37,11 @@ export const paths = {
   teaching: { path: '/teaching', getHref: () => '/teaching' },
   reviews: { path: '/reviews', getHref: () => '/reviews' },
   drugModels: { path: '/drug-models', getHref: () => '/drug-models' },
+  drugModel: {
+    path: '/drug-models/:modelId',
+    getHref: (modelId: string, version?: number) =>
+      `/drug-models/${encodeURIComponent(modelId)}${version ? `?version=${version}` : ''}`,
+  },
   audit: { path: '/audit', getHref: () => '/audit' },
   users: { path: '/users', getHref: () => '/users' },
   status: { path: '/status', getHref: () => '/status' },
