@@ -1,6 +1,11 @@
 import { useState } from 'react';
 import { Link, useParams } from 'react-router-dom';
-import { pitfallLabels, type PitfallCode, type PracticePlan } from '@ebbtide/contracts';
+import {
+  pitfallLabels,
+  type PitfallCode,
+  type PracticePlan,
+  type TeachingCase,
+} from '@ebbtide/contracts';
 import { Button } from '../../../components/ui/button';
 import { Panel } from '../../../components/ui/panel';
 import { ResultCaution } from '../../../components/ui/result-caution';
@@ -8,19 +13,78 @@ import { ErrorMessage, Loading } from '../../../components/ui/states';
 import { Warnings } from '../../../components/ui/warnings';
 import { paths } from '../../../config/paths';
 import { ApiError } from '../../../lib/api-client';
+import { formatNumber } from '../../../lib/clinical-format';
 import { usePracticePlans } from '../api/get-practice-plans';
 import { useTeachingCase } from '../api/get-teaching-case';
 import { useSubmitPracticePlan } from '../api/submit-practice-plan';
 
 const PITFALLS = Object.keys(pitfallLabels) as PitfallCode[];
-const v = (x: number | null) => (x === null ? '—' : String(x));
+const v = (x: number | null, decimals = 1) => (x === null ? '—' : formatNumber(x, decimals));
+
+const COVARIATE_LABELS: Record<string, string> = {
+  weight: 'Weight',
+  height: 'Height',
+  'serum-creatinine': 'Serum creatinine',
+  albumin: 'Albumin',
+  dialysis: 'Dialysis',
+};
+const ROUTE_LABELS: Record<string, string> = {
+  'iv-infusion': 'IV infusion',
+  'iv-bolus': 'IV bolus',
+  oral: 'oral',
+};
+const TARGET_LABELS: Record<string, string> = {
+  auc24: 'AUC24',
+  trough: 'trough',
+  peak: 'peak',
+  'peak-mic-ratio': 'peak/MIC',
+  css: 'Css',
+};
+const TARGET_UNITS: Record<string, string> = {
+  auc24: ' mg·h/L',
+  trough: ' mg/L',
+  peak: ' mg/L',
+  'peak-mic-ratio': '',
+  css: ' mg/L',
+};
+const unitLabel = (u: string | null) => (u === 'umol/L' ? 'µmol/L' : (u ?? ''));
+
+const PARAM_ORDER = ['CL', 'V1', 'Q', 'V2', 'ka', 'F', 'Vmax', 'Km'];
+const PARAM_UNITS: Record<string, string> = {
+  CL: 'L/h',
+  V1: 'L',
+  Q: 'L/h',
+  V2: 'L',
+  ka: '1/h',
+  F: 'fraction',
+  Vmax: 'mg/h',
+  Km: 'mg/L',
+};
+/** Parameters of the estimate and the true patient, in the usual order. */
+function paramNames(s: PracticePlan['score']): string[] {
+  const rank = (k: string) => (PARAM_ORDER.includes(k) ? PARAM_ORDER.indexOf(k) : 99);
+  return [
+    ...new Set([...Object.keys(s.estimatedParameters), ...Object.keys(s.trueParameters)]),
+  ].sort((a, b) => rank(a) - rank(b));
+}
+
+function targetText(t: TeachingCase['target']): string {
+  const unit = TARGET_UNITS[t.metric] ?? '';
+  const range =
+    t.low !== null && t.high !== null
+      ? `${t.low}–${t.high}`
+      : t.low !== null
+        ? `≥ ${t.low}`
+        : `≤ ${t.high}`;
+  return `${TARGET_LABELS[t.metric] ?? t.metric} ${range}${unit}`;
+}
 
 function Score({ plan }: { plan: PracticePlan }) {
   const s = plan.score;
   return (
     <div className="space-y-2 text-sm" data-testid="practice-score">
       <p className="text-lg font-semibold text-tide-900">Score {s.points}/100</p>
-      <table className="text-left text-xs">
+      <table className="text-left text-xs" aria-label="Exposure">
         <thead>
           <tr className="text-slate-500">
             <th className="pr-4" />
@@ -32,32 +96,77 @@ function Score({ plan }: { plan: PracticePlan }) {
         <tbody>
           <tr>
             <td className="pr-4">Your prediction</td>
-            <td>{v(s.predicted.auc24)}</td>
+            <td>{v(s.predicted.auc24, 0)}</td>
             <td>{v(s.predicted.peakMgL)}</td>
             <td>{v(s.predicted.troughMgL)}</td>
           </tr>
           <tr>
             <td className="pr-4">True patient</td>
-            <td>{v(s.truth.auc24)}</td>
+            <td>{v(s.truth.auc24, 0)}</td>
             <td>{v(s.truth.peakMgL)}</td>
             <td>{v(s.truth.troughMgL)}</td>
           </tr>
         </tbody>
       </table>
       <p>
-        Target {s.targetMet ? 'met' : 'not met'} in the true patient
-        {s.auc24ErrorPercent !== null && ` · prediction error ${s.auc24ErrorPercent}%`}.
+        {s.targetMet === null
+          ? 'No target to check in the true patient'
+          : `Target ${s.targetMet ? 'met' : 'not met'} in the true patient`}
+        {s.auc24ErrorPercent !== null &&
+          ` · AUC24 prediction error ${s.auc24ErrorPercent > 0 ? '+' : ''}${formatNumber(s.auc24ErrorPercent, 0)}%`}
+        .
       </p>
-      <p className="text-xs">
-        True parameters:{' '}
-        {Object.entries(s.trueParameters)
-          .map(([k, x]) => `${k} ${Number(x.toFixed(2))}`)
-          .join(', ')}{' '}
-        · your estimate:{' '}
-        {Object.entries(s.estimatedParameters)
-          .map(([k, x]) => `${k} ${Number(x.toFixed(2))}`)
-          .join(', ')}
-      </p>
+      {s.pitfalls.length > 0 || s.falseAlarms.length > 0 ? (
+        <ul aria-label="Pitfalls" className="space-y-1">
+          {s.pitfalls.map((p) => (
+            <li key={p.code}>
+              <span
+                className={`mr-1 rounded px-1 text-xs font-semibold ${p.caught ? 'bg-emerald-50 text-emerald-800' : 'bg-red-50 text-red-800'}`}
+              >
+                {p.caught ? 'caught' : 'missed'}
+              </span>
+              <strong className="font-medium">{p.label}</strong>
+              {!p.caught && `: ${p.description}`}
+            </li>
+          ))}
+          {s.falseAlarms.map((code) => (
+            <li key={code}>
+              <span className="mr-1 rounded bg-slate-100 px-1 text-xs font-semibold text-slate-700">
+                not in this case
+              </span>
+              {pitfallLabels[code]}
+            </li>
+          ))}
+        </ul>
+      ) : (
+        <p className="text-xs text-slate-600">This case has no deliberate pitfall.</p>
+      )}
+      <table className="text-left text-xs" aria-label="Parameters">
+        <thead>
+          <tr className="text-slate-500">
+            <th className="pr-4" />
+            {paramNames(s).map((k) => (
+              <th key={k} className="pr-4">
+                {k} ({PARAM_UNITS[k] ?? '—'})
+              </th>
+            ))}
+          </tr>
+        </thead>
+        <tbody>
+          <tr>
+            <td className="pr-4">Your estimate</td>
+            {paramNames(s).map((k) => (
+              <td key={k}>{v(s.estimatedParameters[k] ?? null, 2)}</td>
+            ))}
+          </tr>
+          <tr>
+            <td className="pr-4">True patient</td>
+            {paramNames(s).map((k) => (
+              <td key={k}>{v(s.trueParameters[k] ?? null, 2)}</td>
+            ))}
+          </tr>
+        </tbody>
+      </table>
       <ul className="list-disc pl-5">
         {s.feedback.map((f, i) => (
           <li key={i}>{f}</li>
@@ -95,8 +204,9 @@ export function TeachingCaseScreen() {
         <h1 className="text-xl font-semibold text-tide-900">{c.title}</h1>
         <p className="text-sm text-slate-700">{c.summary}</p>
         <p className="text-xs text-slate-500">
-          {c.drug} · {c.sex}, {c.age} years · {c.indication} · target {c.target.metric}{' '}
-          {c.target.low ?? '–'}–{c.target.high ?? '–'} · model {c.model.name}
+          {c.drug} · {c.sex}, {c.age} years · {c.indication} · target {targetText(c.target)}
+          {c.micMgL !== null && ` at MIC ${c.micMgL} mg/L`} · model {c.model.name} v
+          {c.model.version}
         </p>
         <p className="mt-1 text-sm">
           Explore it:{' '}
@@ -116,8 +226,8 @@ export function TeachingCaseScreen() {
             <ul>
               {c.covariates.map((cv) => (
                 <li key={cv.id}>
-                  {cv.time.label}: {cv.kind} {cv.value ?? ''} {cv.unit ?? ''}{' '}
-                  {cv.detail ? `(${cv.detail})` : ''}
+                  {cv.time.label}: {COVARIATE_LABELS[cv.kind] ?? cv.kind} {cv.value ?? ''}{' '}
+                  {unitLabel(cv.unit)} {cv.detail ? `(${cv.detail})` : ''}
                 </li>
               ))}
             </ul>
@@ -127,7 +237,7 @@ export function TeachingCaseScreen() {
             <ul>
               {c.doses.map((d) => (
                 <li key={d.id}>
-                  {d.time.label}: {d.amountMg} mg {d.route}
+                  {d.time.label}: {d.amountMg} mg {ROUTE_LABELS[d.route] ?? d.route}
                   {d.durationH ? ` over ${d.durationH} h` : ''} ({d.status})
                 </li>
               ))}
@@ -264,10 +374,11 @@ export function TeachingCaseScreen() {
       <Panel title="Earlier attempts">
         {attempts.data?.items.length ? (
           <ul className="text-sm">
-            {attempts.data.items.map((a) => (
+            {attempts.data.items.map((a, i, all) => (
               <li key={a.id}>
-                {new Date(a.createdAt).toLocaleString('en-GB')}: {a.regimen.doseMg} mg every{' '}
-                {a.regimen.intervalH} h — {a.score.points}/100
+                Attempt {all.length - i}: {a.regimen.doseMg} mg every {a.regimen.intervalH} h over{' '}
+                {a.regimen.infusionH} h — {a.score.points}/100
+                {a.score.targetMet !== null && ` · target ${a.score.targetMet ? 'met' : 'not met'}`}
               </li>
             ))}
           </ul>
