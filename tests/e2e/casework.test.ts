@@ -2,9 +2,6 @@ import path from 'node:path';
 import { randomBytes } from 'node:crypto';
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
 import type { APIRequestContext, Page } from 'playwright-core';
-import { drugModelLibrary } from '../../packages/kinetics/src/index';
-import { createDb } from '../../apps/api/src/data-access/db';
-import { syncEngineLibrary } from '../../apps/api/src/domain/drug-models/drug-models';
 import { launchBrowser, screenshotDir } from '../support/browser';
 import { DEMO_LOGINS, fillProviderSignIn } from '../support/sign-in';
 
@@ -43,15 +40,7 @@ let courseId = '';
 let familyName = '';
 
 beforeAll(async () => {
-  // Reference data, not demo data: the drug-model library the server also syncs from the engine.
-  if (process.env.DATABASE_URL) {
-    const db = createDb(process.env.DATABASE_URL);
-    try {
-      await syncEngineLibrary(db, drugModelLibrary);
-    } finally {
-      await db.destroy();
-    }
-  }
+  // The drug-model library is reference data: the server syncs it from the engine at start-up.
   session = await launchBrowser();
   page = await session.context.newPage();
   page.on('console', (msg) => {

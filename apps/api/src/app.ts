@@ -2,6 +2,7 @@ import { existsSync } from 'node:fs';
 import path from 'node:path';
 import express, { type Express } from 'express';
 import helmet from 'helmet';
+import type PgBoss from 'pg-boss';
 import { pinoHttp } from 'pino-http';
 import type { Logger } from 'pino';
 import session from 'express-session';
@@ -20,6 +21,11 @@ export interface AppDeps {
   config: AppConfig;
   db: Db;
   logger: Logger;
+  /**
+   * The process's one job queue, already started by the caller (see jobs/queue.ts). Routes that
+   * enqueue work (plan mail) use it; they never start a queue of their own.
+   */
+  boss: PgBoss;
 }
 
 /** Builds the Express app without listening, so supertest can drive it. */

@@ -72,6 +72,12 @@ const configSchema = z.object({
     .min(1)
     .max(60 * 24)
     .default(480),
+  /**
+   * SIGNING_REAUTH_MAX_AGE_MINUTES: how recently a person must have entered their credentials at
+   * the identity provider to sign, countersign or return a plan (21 CFR 11.200); older than this,
+   * signing asks for them again.
+   */
+  signingReauthMaxAgeMinutes: z.coerce.number().int().min(1).max(120).default(10),
   /** IDP_EVENT_SECRET: shared secret with which the local provider signs failed sign-in events it reports. */
   idpEventSecret: z.string().min(16).default(DEV_DEFAULTS.idpEventSecret),
   /** SMTP_HOST: the mail server; in development and tests the local mail catcher. */
@@ -91,7 +97,10 @@ const configSchema = z.object({
    * Never a name, MRN, date of birth, dose or level.
    */
   mailPatientDetail: z.enum(['minimal', 'ward', 'initials']).default('ward'),
-  /** RUN_WORKERS: run the background workers (mail delivery) inside this API process. */
+  /**
+   * RUN_WORKERS: run the background workers (mail delivery, the plan re-check sweep, PTA runs)
+   * inside this API process.
+   */
   runWorkers: envBoolean.default(true),
   /** HOSPITAL_TIME_ZONE: IANA zone in which mail and reports show clock times. */
   hospitalTimeZone: z
@@ -120,6 +129,7 @@ const envNames: Record<keyof AppConfig, string> = {
   sessionSecret: 'SESSION_SECRET',
   sessionCookieName: 'SESSION_COOKIE_NAME',
   sessionMaxAgeMinutes: 'SESSION_MAX_AGE_MINUTES',
+  signingReauthMaxAgeMinutes: 'SIGNING_REAUTH_MAX_AGE_MINUTES',
   idpEventSecret: 'IDP_EVENT_SECRET',
   smtpHost: 'SMTP_HOST',
   smtpPort: 'SMTP_PORT',

@@ -2,7 +2,10 @@ import { createServer, type Server } from 'node:http';
 import type { AddressInfo } from 'node:net';
 import { createApp } from './app';
 import { loadConfig, type AppConfigInput } from './config';
+import { drugModelLibrary } from '@ebbtide/kinetics';
 import { createDb } from './data-access/db';
+import { ensureEngineLibrary } from './domain/drug-models/library-at-startup';
+import { stopPtaQueues } from './jobs/pta-queue';
 import { createJobQueue } from './jobs/queue';
 import { createLogger } from './lib/logger';
 import { ensureMailQueue } from './mail/mail-worker';
@@ -36,7 +39,11 @@ export async function startServer(overrides: Partial<AppConfigInput> = {}): Prom
   const config = loadConfig(process.env, { ...overrides, port });
   const logger = createLogger(config);
   const db = createDb(config.databaseUrl);
-  // The job queue is always started (plans enqueue mail); the workers only when RUN_WORKERS.
+  // A freshly migrated database gets the engine's built-in drug models (idempotent, and safe
+  // when several API processes start at once).
+  await ensureEngineLibrary(db, drugModelLibrary);
+  // The process's one job queue is always started (plans enqueue mail) and handed to the app;
+  // the workers only when RUN_WORKERS.
   const boss = createJobQueue(config);
   boss.on('error', (err) => logger.error({ err }, 'job queue error'));
   await boss.start();
@@ -44,7 +51,7 @@ export async function startServer(overrides: Partial<AppConfigInput> = {}): Prom
   const workers: RunningWorkers | undefined = config.runWorkers
     ? await startWorkers({ config, db, logger, boss })
     : undefined;
-  current.app = createApp({ config, db, logger });
+  current.app = createApp({ config, db, logger, boss });
   appReady();
   const url = `http://${config.host}:${port}`;
   logger.info({ url, issuer: config.oidcIssuer }, 'Ebbtide API listening');
@@ -55,6 +62,8 @@ export async function startServer(overrides: Partial<AppConfigInput> = {}): Prom
       server.closeAllConnections();
       await new Promise<void>((resolve) => server.close(() => resolve()));
       await workers?.stop();
+      // The casework PTA routes still start a queue of their own on first use (jobs/pta-queue.ts).
+      await stopPtaQueues();
       await boss.stop({ graceful: true, wait: true });
       await db.destroy();
     },

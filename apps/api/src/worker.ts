@@ -4,6 +4,10 @@ import type PgBoss from 'pg-boss';
 import type { Logger } from 'pino';
 import { loadConfig, type AppConfig } from './config';
 import { createDb, type Db } from './data-access/db';
+import { PTA_QUEUE } from './domain/jobs/pta';
+import { planDeps } from './domain/plans/plan-deps';
+import { startRecheckSweep } from './domain/plans/recheck';
+import { startPtaWorker, stopPtaQueues } from './jobs/pta-queue';
 import { createJobQueue } from './jobs/queue';
 import { createLogger } from './lib/logger';
 import { startMailWorker } from './mail/mail-worker';
@@ -16,9 +20,11 @@ export interface RunningWorkers {
 const LOOPBACK = new Set(['127.0.0.1', 'localhost', '::1']);
 
 /**
- * Starts the background workers (today: mail delivery) on an already started PgBoss.
- * The API process calls it when RUN_WORKERS is true; `tsx src/worker.ts` runs a worker-only
- * process (for more delivery capacity, or to keep workers off the web processes).
+ * Starts the background workers on the process's one, already started PgBoss: mail delivery from
+ * the outbox, the plan re-check sweep, and the PTA (Monte Carlo) runs. The API process calls it
+ * when RUN_WORKERS is true; `tsx src/worker.ts` runs a worker-only process (for more capacity, or
+ * to keep heavy runs off the web processes). Every job and its state live in PostgreSQL, so any
+ * number of these processes may run at once.
  */
 export async function startWorkers(deps: {
   config: AppConfig;
@@ -44,8 +50,17 @@ export async function startWorkers(deps: {
     from: config.mailFrom,
   });
   deps.logger.info({ smtp: `${config.smtpHost}:${config.smtpPort}` }, 'mail worker started');
+  // Plans past their re-check time mail their author (the mail goes through the outbox above).
+  const stopSweep = startRecheckSweep(deps.db, planDeps({ config, boss: deps.boss }), {
+    onError: (err) => deps.logger.error({ err }, 're-check sweep failed'),
+  });
+  // PTA runs requested by any API process; pg-boss hands each job to one worker.
+  await startPtaWorker({ boss: deps.boss, db: deps.db });
+  deps.logger.info('re-check sweep and PTA worker started');
   return {
     stop: async () => {
+      await stopSweep();
+      await deps.boss.offWork(PTA_QUEUE);
       await mail.stop();
       transport.close();
     },
@@ -64,6 +79,7 @@ async function main(): Promise<void> {
     logger.info({ signal }, 'stopping workers');
     await workers.stop();
     await boss.stop({ graceful: true, wait: true });
+    await stopPtaQueues();
     await db.destroy();
     process.exit(0);
   };

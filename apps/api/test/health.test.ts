@@ -4,6 +4,7 @@ import { createTestApp } from './helpers';
 import { createApp } from '../src/app';
 import { loadConfig } from '../src/config';
 import { createDb } from '../src/data-access/db';
+import { createJobQueue } from '../src/jobs/queue';
 import { createLogger } from '../src/lib/logger';
 
 const { app, db } = createTestApp();
@@ -24,7 +25,9 @@ describe('GET /api/health', () => {
       { logLevel: 'silent', databaseUrl: 'postgres://postgres@127.0.0.1:1/none' },
     );
     const deadDb = createDb(config.databaseUrl);
-    const deadApp = createApp({ config, db: deadDb, logger: createLogger(config) });
+    // The queue stays unstarted: its database is the unreachable one and health never uses it.
+    const boss = createJobQueue(config);
+    const deadApp = createApp({ config, db: deadDb, logger: createLogger(config), boss });
     // Act
     const res = await request(deadApp).get('/api/health?timeoutMs=500');
     // Assert

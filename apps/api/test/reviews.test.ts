@@ -6,8 +6,9 @@ import { randomUUID } from 'node:crypto';
 import { startMailCatcher, type RunningMailCatcher } from '@ebbtide/mailcatcher';
 import { pino } from 'pino';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { AppConfig } from '../src/config';
 import { mailOverdueRechecks } from '../src/domain/plans/recheck';
-import { planDeps } from '../src/entry-points/http/routes/plans';
+import { planDeps } from '../src/domain/plans/plan-deps';
 import { startMailWorker, type RunningMailWorker } from '../src/mail/mail-worker';
 import { createMailTransport } from '../src/mail/transport';
 import { signedInAgent, type SignedInClient } from './support/sign-in';
@@ -452,11 +453,10 @@ describe('re-check overdue mail', () => {
       .post(`/api/plans/${created.body.id}/countersign`)
       .send({ version: sub.body.version, contentHash: sub.body.contentHash, checklist: CHECKLIST });
     const deps = planDeps({
-      ...world,
-      config: (world.app.locals as { config: never }).config,
-      logger: pino({ level: 'silent' }),
+      boss: world.boss,
+      config: (world.app.locals as { config: AppConfig }).config,
       mailQueueName: QUEUE,
-    } as never);
+    });
     const later = new Date(Date.now() + 7 * 3_600_000);
     const first = await mailOverdueRechecks(world.db, deps, later);
     const second = await mailOverdueRechecks(world.db, deps, later);

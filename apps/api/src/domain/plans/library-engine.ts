@@ -8,14 +8,7 @@ import {
   type ModelStructure,
   type PkParameters,
 } from '@ebbtide/kinetics';
-import type {
-  FitRequest,
-  FitResponse,
-  Regimen,
-  SimulateRequest,
-  SimulateResponse,
-  Warning,
-} from '@ebbtide/contracts';
+import type { FitRequest, FitResponse, Regimen, Warning } from '@ebbtide/contracts';
 import type { Conn } from '../../data-access/casework-db';
 import { covariatesOfPatient } from '../../data-access/covariates-repo';
 import { dosesOfCourse, type DoseRecord } from '../../data-access/doses-repo';
@@ -29,21 +22,11 @@ import { CLINICAL_CAUTION } from './caution';
 const HOUR_MS = 3_600_000;
 
 /**
- * A `CourseEngine` over @ebbtide/kinetics and the drug-model library, reading the course's stored
- * rows: Bayesian MAP fit (`fitMap`) from the library prior with the patient's covariates, and
- * forward simulation (`simulate`). Used where the casework engine use cases are not handed in.
+ * Engine inputs read from a course's stored rows, a MAP fit and a forward simulation over
+ * @ebbtide/kinetics, for the teaching practice plans (domain/teaching). Plans do not use this
+ * file: they call the casework engine use cases (domain/engine, see plan-deps.ts), so a plan shows
+ * the numbers of the regimen screen.
  */
-export const libraryCourseEngine = {
-  async fit(conn: Conn, actor: CaseworkActor, courseId: string, request: FitRequest) {
-    const inputs = await engineInputs(conn, actor, courseId);
-    return fitFrom(inputs, request);
-  },
-  async simulate(conn: Conn, actor: CaseworkActor, courseId: string, request: SimulateRequest) {
-    const inputs = await engineInputs(conn, actor, courseId);
-    return simulateFrom(inputs, request);
-  },
-};
-
 export interface EngineInputs {
   ctx: CourseContext;
   entry: DrugModelEntry;
@@ -266,48 +249,5 @@ export function exposureOver(
       auc24: span > 0 ? (r.aucs[0]! * 24) / span : null,
     },
     errorEstimate: r.errorEstimate,
-  };
-}
-
-export function simulateFrom(inputs: EngineInputs, request: SimulateRequest): SimulateResponse {
-  let parameters: Record<string, number>;
-  let warnings: Warning[] = [...inputs.warnings];
-  if (request.parameters === 'map' && inputs.levels.length > 0) {
-    const fit = fitFrom(inputs, { method: 'map', excludeLevelIds: [] });
-    parameters = fit.parameters;
-    warnings = fit.warnings;
-  } else {
-    const { prior: p, warnings: w } = prior(inputs);
-    parameters = p.typical;
-    warnings.push(...w.map((x) => ({ code: x.code, message: x.message })));
-  }
-  const planned = request.regimen ? regimenDoses(inputs, request.regimen) : [];
-  const doses = [...inputs.doses, ...planned].sort((a, b) => a.time - b.time);
-  if (doses.length === 0) throw unprocessable('There are no doses to simulate');
-  const last = doses.at(-1)!;
-  const interval = request.regimen?.intervalH ?? 24;
-  const window = request.regimen
-    ? { from: last.time, to: last.time + interval }
-    : { from: last.time + request.horizonH - 24, to: last.time + request.horizonH };
-  const result = exposureOver(
-    inputs.structure,
-    parameters as unknown as PkParameters,
-    doses,
-    {
-      from: window.from,
-      to: window.to,
-    },
-    request.stepH,
-  );
-  const at = (h: number) =>
-    inputs.originAt ? new Date(Date.parse(inputs.originAt) + h * HOUR_MS).toISOString() : null;
-  return {
-    model: { id: inputs.ctx.model.id, version: inputs.ctx.model.version },
-    warnings,
-    caution: CLINICAL_CAUTION,
-    parameters,
-    points: result.points.map((p) => ({ hour: p.hour, at: at(p.hour), concentrationMgL: p.c })),
-    exposure: result.exposure,
-    errorEstimate: result.errorEstimate,
   };
 }

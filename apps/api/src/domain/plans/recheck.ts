@@ -54,3 +54,39 @@ export async function mailOverdueRechecks(
   }
   return mailed;
 }
+
+/** How often the re-check sweep runs by default. */
+export const RECHECK_SWEEP_INTERVAL_SECONDS = 300;
+
+/**
+ * Starts the periodic re-check sweep: once now, then every `intervalSeconds`, each plan past its
+ * re-check time mails its author once (a second process sweeping too is harmless, see above).
+ * For the process that runs the background workers; returns a function that stops it and waits
+ * for a sweep in progress.
+ */
+export function startRecheckSweep(
+  db: Conn,
+  deps: Pick<PlanDeps, 'mailer' | 'publicOrigin' | 'mailPolicy' | 'timeZone'>,
+  options: { intervalSeconds?: number; onError: (error: unknown) => void },
+): () => Promise<void> {
+  let current: Promise<void> | null = null;
+  const sweep = () => {
+    if (current) return;
+    current = mailOverdueRechecks(db, deps)
+      .then(() => undefined)
+      .catch(options.onError)
+      .finally(() => {
+        current = null;
+      });
+  };
+  sweep();
+  const timer = setInterval(
+    sweep,
+    (options.intervalSeconds ?? RECHECK_SWEEP_INTERVAL_SECONDS) * 1000,
+  );
+  timer.unref();
+  return async () => {
+    clearInterval(timer);
+    await current;
+  };
+}

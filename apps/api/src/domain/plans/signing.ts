@@ -1,12 +1,13 @@
 import { AppError } from '../../lib/app-error';
 
-/** How long after entering credentials at the identity provider a person may sign (11.200). */
-export const DEFAULT_SIGNING_WINDOW_MINUTES = 10;
-
 /** What the domain knows about the signer's authentication: a plain value, never the session. */
 export interface SigningAuthentication {
   /** When the signer last entered their credentials (the ID token's auth_time), if known. */
   authenticatedAt: Date | null;
+  /**
+   * How long after entering credentials at the identity provider a person may sign (21 CFR
+   * 11.200); config SIGNING_REAUTH_MAX_AGE_MINUTES.
+   */
   windowMinutes: number;
   /** Where the browser goes to re-enter credentials. */
   reauthenticateUrl: string;

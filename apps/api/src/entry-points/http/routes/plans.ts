@@ -1,5 +1,4 @@
 import { Router, type Request } from 'express';
-import type PgBoss from 'pg-boss';
 import { z } from 'zod';
 import {
   countersignSchema,
@@ -13,12 +12,7 @@ import {
 } from '@ebbtide/contracts';
 import type { AppDeps } from '../../../app';
 import { publicOrigin } from '../../../config';
-import type { Conn } from '../../../data-access/casework-db';
-import { createJobQueue } from '../../../jobs/queue';
-import { ensureMailQueue } from '../../../mail/mail-worker';
-import { enqueueMail } from '../../../mail/outbox';
-import type { CourseEngine } from '../../../domain/plans/engine-basis';
-import { libraryCourseEngine } from '../../../domain/plans/library-engine';
+import { planDeps, type PlanWiring } from '../../../domain/plans/plan-deps';
 import {
   countersignPlan,
   createPlan,
@@ -28,16 +22,8 @@ import {
   returnPlan,
   submitPlan,
   supersedePlan,
-  type PlanDeps,
-  type PlanMailer,
 } from '../../../domain/plans/plans';
-import {
-  DEFAULT_SIGNING_WINDOW_MINUTES,
-  freshUntil,
-  isFresh,
-  type SigningAuthentication,
-} from '../../../domain/plans/signing';
-import { mailOverdueRechecks } from '../../../domain/plans/recheck';
+import { freshUntil, isFresh, type SigningAuthentication } from '../../../domain/plans/signing';
 import { planChanges } from '../../../domain/reviews/changes';
 import { planReport } from '../../../domain/plans/report';
 import { AppError } from '../../../lib/app-error';
@@ -45,57 +31,8 @@ import { CLINICAL_STAFF, REVIEWERS, defineRoute, requireActor } from '../access'
 import { parseRequest } from '../middlewares/validate';
 import { createOidcClient, oidc } from './auth-oidc';
 
-/** Optional collaborators a caller may hand in (the server's started job queue, the engine). */
-type PlanAppDeps = AppDeps & {
-  boss?: PgBoss;
-  courseEngine?: CourseEngine;
-  /** The pg-boss queue mail jobs go to (tests isolate themselves with their own). */
-  mailQueueName?: string;
-};
-
-/**
- * The mail outbox writer. Uses the app's job queue when the server passes one; otherwise starts
- * one of its own on first use (the queue's tables and the mail queue are created idempotently).
- */
-export function outboxMailer(deps: PlanAppDeps): PlanMailer {
-  let own: Promise<PgBoss> | undefined;
-  const boss = (): Promise<PgBoss> => {
-    if (deps.boss) return Promise.resolve(deps.boss);
-    own ??= (async () => {
-      const b = createJobQueue(deps.config, { supervise: false, schedule: false, max: 2 });
-      b.on('error', (err) => deps.logger.error({ err }, 'plan mail queue error'));
-      await b.start();
-      await ensureMailQueue(b);
-      return b;
-    })().catch((error: unknown) => {
-      own = undefined;
-      throw error;
-    });
-    return own;
-  };
-  return {
-    enqueue: async (conn: Conn, message) => {
-      await enqueueMail(conn, message, {
-        boss: await boss(),
-        ...(deps.mailQueueName ? { queueName: deps.mailQueueName } : {}),
-      });
-    },
-  };
-}
-
-export function planDeps(deps: PlanAppDeps): PlanDeps {
-  const config = deps.config as AppDeps['config'] & {
-    hospitalTimeZone?: string;
-    mailPatientDetail?: PlanDeps['mailPolicy'];
-  };
-  return {
-    engine: deps.courseEngine ?? libraryCourseEngine,
-    mailer: outboxMailer(deps),
-    timeZone: config.hospitalTimeZone ?? 'Australia/Brisbane',
-    publicOrigin: publicOrigin(deps.config),
-    mailPolicy: config.mailPatientDetail ?? 'ward',
-  };
-}
+/** The app's deps (with its started job queue) and the optional test hooks of `planDeps`. */
+type PlanAppDeps = AppDeps & Omit<PlanWiring, 'config' | 'boss'>;
 
 /** The `auth_time` claim (seconds) of a stored ID token, if it has one. */
 function authTimeOf(idToken: string | undefined): Date | null {
@@ -141,10 +78,8 @@ const versionBody = planTransitionSchema;
  * Plans: draft, edit, submit, countersign, return, supersede, the changes since the last
  * countersigned plan, the PDF report, and the signing re-authentication.
  */
-export function planRoutes(
-  deps: PlanAppDeps,
-  windowMinutes = DEFAULT_SIGNING_WINDOW_MINUTES,
-): Router {
+export function planRoutes(deps: PlanAppDeps): Router {
+  const windowMinutes = deps.config.signingReauthMaxAgeMinutes;
   const router = Router();
   const pd = planDeps(deps);
   const oidcClient = createOidcClient(deps.config);
@@ -326,24 +261,4 @@ export function planRoutes(
   });
 
   return router;
-}
-
-/**
- * Starts the periodic re-check sweep (every `intervalSeconds`): each plan past its re-check time
- * mails its author once. For the process that runs the background workers; returns a stop function.
- */
-export function startRecheckSweep(deps: PlanAppDeps, intervalSeconds = 300): () => void {
-  const pd = planDeps(deps);
-  let running = false;
-  const timer = setInterval(() => {
-    if (running) return;
-    running = true;
-    mailOverdueRechecks(deps.db, pd)
-      .catch((err: unknown) => deps.logger.error({ err }, 're-check sweep failed'))
-      .finally(() => {
-        running = false;
-      });
-  }, intervalSeconds * 1000);
-  timer.unref();
-  return () => clearInterval(timer);
 }
