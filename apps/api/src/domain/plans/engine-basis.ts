@@ -36,6 +36,14 @@ export interface CourseEngine {
   ): Promise<SimulateResponse>;
 }
 
+/**
+ * The stored basis: the contract's fields plus the fit's 90% parameter intervals (absent on plans
+ * stored before they were recorded), from which the report draws its uncertainty band.
+ */
+export type PlanEngineBasis = PlanBasis & {
+  uncertainty?: Record<string, { low: number; high: number }> | null;
+};
+
 export const engineUnavailable = (cause?: unknown) =>
   new AppError(
     'engine-unavailable',
@@ -89,7 +97,7 @@ export async function computeBasis(
   regimen: Regimen & { startAt: string },
   engine: CourseEngine,
   now = new Date(),
-): Promise<PlanBasis> {
+): Promise<PlanEngineBasis> {
   const [doses, levels, covariates] = await Promise.all([
     dosesOfCourse(conn, ctx.course.id),
     levelsOfCourse(conn, ctx.course.id),
@@ -132,6 +140,7 @@ export async function computeBasis(
     model: { id: ctx.model.id, version: ctx.model.version, name: ctx.model.name },
     parameters: sim.parameters,
     populationParameters: fit?.populationParameters ?? null,
+    uncertainty: method === 'map' ? (fit?.uncertainty ?? null) : null,
     doses: doses.map((d) => ({
       id: d.id,
       version: d.version,

@@ -1,12 +1,18 @@
+import type { DrugModelEntry } from '@ebbtide/kinetics';
 import type { Conn } from '../../data-access/casework-db';
+import { covariatesOfPatient } from '../../data-access/covariates-repo';
 import { findPlan, signaturesOf, type PlanRecord } from '../../data-access/plans-repo';
 import { notFound } from '../../lib/app-error';
-import type { PlanReportModel } from '../../reports/plan-report-model';
+import type { PlanReportModel, PlanReportPlot } from '../../reports/plan-report-model';
 import { renderPlanReport } from '../../reports/render-plan-report';
 import { requireCourse } from '../courses/courses';
+import { computeDerived } from '../covariates/derived';
+import { getDrugModel } from '../drug-models/drug-models';
 import type { CaseworkActor } from '../patients/common';
 import { ageOn } from '../patients/patients';
 import { contentHash } from './content-hash';
+import type { PlanEngineBasis } from './engine-basis';
+import { reportCurves, reportDerivedValues } from './report-curves';
 import { toPlanDto, type PlanContent, type PlanDeps } from './plans';
 
 const DRUG_NAMES: Record<string, string> = {
@@ -53,11 +59,20 @@ const MEANINGS = {
 } as const;
 
 const HOSPITAL_NAME = 'Kestrel Bay Regional Hospital';
+/** The casework engine's note of the creatinine clearance a model used (domain/engine/context.ts). */
+const CRCL_USED = 'crcl-used';
+
+/** What the report shows beyond the stored plan, recomputed on the server from stored data. */
+export interface PlanReportExtras {
+  derived: PlanReportModel['derived'];
+  curves: Pick<PlanReportPlot, 'population' | 'band' | 'bandLabel'> | null;
+}
 
 /**
  * Maps the stored plan, its course and patient into the report model. Every number comes from
- * what was stored (the plan content as recomputed by the server at submission); nothing here
- * runs the engine.
+ * what was stored (the plan content as recomputed by the server at submission) or, for the
+ * derived values and the population curve and band, from `extras`, which `planReport` recomputes
+ * from stored data.
  */
 export function planReportModel(
   actor: CaseworkActor,
@@ -65,6 +80,7 @@ export function planReportModel(
   signatures: Awaited<ReturnType<typeof signaturesOf>>,
   ctx: Awaited<ReturnType<typeof requireCourse>>,
   deps: Pick<PlanDeps, 'timeZone'>,
+  extras: PlanReportExtras = { derived: [], curves: null },
   now = new Date(),
 ): PlanReportModel {
   const c = plan.content as unknown as PlanContent;
@@ -79,10 +95,10 @@ export function planReportModel(
       .sort()[0] ?? c.regimen.firstDoseAt;
   const target = TARGETS[course.target.metric] ?? { metric: course.target.metric, unit: '' };
   const predicted = basis?.predicted;
-  const warnings: PlanReportModel['warnings'] = dto.warnings.map((w) => ({
-    severity: 'warning',
-    text: w.message,
-  }));
+  // The CrCl the model used is printed with its formula under "Derived values", not as a warning.
+  const warnings: PlanReportModel['warnings'] = dto.warnings
+    .filter((w) => w.code !== CRCL_USED)
+    .map((w) => ({ severity: 'warning', text: w.message }));
   for (const s of dto.signatures) {
     if (!s.matchesContent && s.meaning !== 'returned') {
       warnings.unshift({
@@ -136,7 +152,7 @@ export function planReportModel(
       observedAt: cv.observedAt,
       source: cv.kind === 'weight' ? cv.detail : cv.kind === 'dialysis' ? null : 'laboratory',
     })),
-    derived: [],
+    derived: extras.derived,
     doses: (basis?.doses ?? [])
       .filter((d) => d.startAt !== null)
       .map((d) => ({
@@ -164,13 +180,13 @@ export function planReportModel(
               name: PARAMETER_NAMES[key]?.name ?? key,
               value,
               unit: PARAMETER_NAMES[key]?.unit ?? '',
-              lower90: null,
-              upper90: null,
+              lower90: (basis as PlanEngineBasis).uncertainty?.[key]?.low ?? null,
+              upper90: (basis as PlanEngineBasis).uncertainty?.[key]?.high ?? null,
               population: basis.populationParameters?.[key] ?? null,
             })),
             objective: null,
             shrinkage: [],
-            note: 'Curve: the planned regimen simulated with the individual estimates.',
+            note: 'Curves: the doses given and the planned regimen simulated with the individual estimates (solid) and the population values (dashed).',
             plot: {
               originAt: firstDose,
               observed: basis.levels
@@ -186,9 +202,9 @@ export function planReportModel(
                   t: (Date.parse(p.at!) - Date.parse(firstDose)) / 3_600_000,
                   c: p.concentrationMgL,
                 })),
-              population: [],
-              band: [],
-              bandLabel: 'no interval computed',
+              population: extras.curves?.population ?? [],
+              band: extras.curves?.band ?? [],
+              bandLabel: extras.curves?.bandLabel ?? 'no interval computed',
               doseTimes: [
                 ...basis.doses.map((d) => d.startAt),
                 ...c.regimen.doses.map((d) => d.startAt),
@@ -268,7 +284,45 @@ export async function planReport(
   if (!plan) throw notFound('Plan');
   const ctx = await requireCourse(db, actor, plan.courseId);
   const signatures = await signaturesOf(db, plan.id);
-  const model = planReportModel(actor, plan, signatures, ctx, deps, now);
+  const extras = await reportExtras(db, plan, ctx);
+  const model = planReportModel(actor, plan, signatures, ctx, deps, extras, now);
   const pdf = await renderPlanReport(model);
   return { pdf, fileName: `plan-${plan.planNumber}-${plan.id.slice(0, 8)}.pdf` };
+}
+
+/**
+ * Derived values and the plot's population curve and band, recomputed from what the plan stored:
+ * the covariate rows its basis lists (as the patient screen computes them, at the basis time) and
+ * the basis's model version, parameters, intervals and doses with the planned regimen.
+ */
+async function reportExtras(
+  db: Conn,
+  plan: PlanRecord,
+  ctx: Awaited<ReturnType<typeof requireCourse>>,
+): Promise<PlanReportExtras> {
+  const c = plan.content as unknown as PlanContent;
+  const basis = c.basis as PlanEngineBasis | null;
+  if (!basis) return { derived: [], curves: null };
+  const used = new Set(basis.covariates.map((cv) => cv.id));
+  const covariates = (await covariatesOfPatient(db, ctx.patient.id)).filter((cv) =>
+    used.has(cv.id),
+  );
+  const derived = reportDerivedValues(
+    computeDerived(ctx.patient, covariates, new Date(basis.computedAt)),
+    { crclUsedByModel: basis.warnings.some((w) => w.code === CRCL_USED) },
+  );
+  if (basis.method !== 'map') return { derived, curves: null };
+  const model = await getDrugModel(db, basis.model.id, basis.model.version);
+  const originAt =
+    basis.doses
+      .map((d) => d.startAt)
+      .filter((t): t is string => t !== null)
+      .sort()[0] ?? c.regimen.firstDoseAt;
+  const curves = reportCurves(
+    model.definition as unknown as DrugModelEntry,
+    basis,
+    c.regimen,
+    originAt,
+  );
+  return { derived, curves };
 }
