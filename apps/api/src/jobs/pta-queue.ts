@@ -50,16 +50,31 @@ export async function startPtaWorker(deps: { boss: PgBoss; db: Db }): Promise<vo
   );
 }
 
-export function ptaQueue(config: Pick<AppConfig, 'databaseUrl'>, db: Db, logger: Logger): JobQueue {
+/**
+ * The queue the PTA routes send to. With the process's own started PgBoss (`boss`), the PTA worker
+ * is registered on it at the first send; without one, a queue of this module's own is started lazily.
+ */
+export function ptaQueue(
+  config: Pick<AppConfig, 'databaseUrl'>,
+  db: Db,
+  logger: Logger,
+  boss?: PgBoss,
+): JobQueue {
+  let shared: Promise<PgBoss> | null = null;
   return {
     async send(queue, data) {
-      let boss = running.get(config.databaseUrl);
-      if (!boss) {
-        boss = start(config, db, logger);
-        running.set(config.databaseUrl, boss);
-        boss.catch(() => running.delete(config.databaseUrl));
+      if (boss) {
+        shared ??= startPtaWorker({ boss, db }).then(() => boss);
+        await (await shared).send(queue, data);
+        return;
       }
-      await (await boss).send(queue, data);
+      let own = running.get(config.databaseUrl);
+      if (!own) {
+        own = start(config, db, logger);
+        running.set(config.databaseUrl, own);
+        own.catch(() => running.delete(config.databaseUrl));
+      }
+      await (await own).send(queue, data);
     },
   };
 }

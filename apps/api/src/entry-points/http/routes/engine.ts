@@ -1,4 +1,5 @@
 import { Router } from 'express';
+import type PgBoss from 'pg-boss';
 import {
   fitRequestSchema,
   idParamsSchema,
@@ -25,9 +26,11 @@ import { parseRequest } from '../middlewares/validate';
  * Pharmacist, reviewer and trainee (a trainee only on teaching courses, by data-access scope);
  * running the engine writes nothing to the clinical record.
  */
-export function engineRoutes(deps: Pick<AppDeps, 'db' | 'config' | 'logger'>): Router {
+export function engineRoutes(
+  deps: Pick<AppDeps, 'db' | 'config' | 'logger'> & { boss?: PgBoss },
+): Router {
   const { db } = deps;
-  const queue = ptaQueue(deps.config, db, deps.logger);
+  const queue = ptaQueue(deps.config, db, deps.logger, deps.boss);
   const router = Router();
   defineRoute(router, {
     method: 'post',
