@@ -15,6 +15,7 @@ import {
   omegaAndCv,
   PARAMETER_NAMES,
   parameterEntries,
+  rangeLabel,
   structureLabel,
   targetLabel,
   variabilityEntries,
@@ -153,9 +154,7 @@ function Covariates({ d }: { d: ModelDefinition }) {
             <tr key={c.name} className="border-b border-slate-100">
               <td className="font-mono text-xs">{c.name}</td>
               <td>{c.description}</td>
-              <td className="whitespace-nowrap">
-                {c.min}–{c.max} {c.unit}
-              </td>
+              <td className="whitespace-nowrap">{rangeLabel(c)}</td>
               <td>
                 <SourceNote p={c} />
               </td>

@@ -39,11 +39,25 @@ export const PARAMETER_NAMES: Record<string, string> = {
   Km: 'Michaelis constant Km',
 };
 
+/** The usual reading order (stored JSON does not keep key order). */
+const ORDER = Object.keys(PARAMETER_NAMES);
+const byUsualOrder = ([a]: [string, unknown], [b]: [string, unknown]) =>
+  (ORDER.includes(a) ? ORDER.indexOf(a) : ORDER.length) -
+  (ORDER.includes(b) ? ORDER.indexOf(b) : ORDER.length);
+
 export const parameterEntries = (d: ModelDefinition): Array<[string, ParameterSpec]> =>
-  Object.entries(d.parameters ?? {}).filter((e): e is [string, ParameterSpec] => !!e[1]);
+  Object.entries(d.parameters ?? {})
+    .filter((e): e is [string, ParameterSpec] => !!e[1])
+    .sort(byUsualOrder);
 
 export const variabilityEntries = (d: ModelDefinition): Array<[string, VariabilitySpec]> =>
-  Object.entries(d.variability ?? {}).filter((e): e is [string, VariabilitySpec] => !!e[1]);
+  Object.entries(d.variability ?? {})
+    .filter((e): e is [string, VariabilitySpec] => !!e[1])
+    .sort(byUsualOrder);
+
+/** A covariate's range as it reads: "5–150 mL/min", or "0 or 1" for a yes/no flag. */
+export const rangeLabel = (c: { min: number; max: number; unit: string }): string =>
+  c.unit === '0/1' ? '0 (no) or 1 (yes)' : `${c.min}–${c.max} ${c.unit}`;
 
 /**
  * Log-normal between-subject variability: ω (SD of ln θ) and CV% describe the same spread,
