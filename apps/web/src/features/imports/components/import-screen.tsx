@@ -164,7 +164,7 @@ function CsvImport({ courseId }: { courseId: string }) {
                   className={`border-b border-slate-100 ${r.status === 'refused' ? 'bg-red-50' : ''}`}
                 >
                   <td>{r.rowNumber}</td>
-                  <td>{r.echo ?? JSON.stringify(r.values)}</td>
+                  <td className="max-w-xl break-words">{r.echo ?? describeRawRow(r.values)}</td>
                   <StatusCell status={r.status} reasons={r.reasons} />
                 </tr>
               ))}
@@ -300,4 +300,13 @@ export function ImportScreen() {
       </Panel>
     </div>
   );
+}
+
+/** A refused row has no echo: show what was read, field by field, so the row wraps and the reason stays in view. */
+function describeRawRow(values: Record<string, unknown> | null | undefined): string {
+  if (!values) return 'nothing could be read';
+  const parts = Object.entries(values)
+    .filter(([, v]) => v !== null && v !== undefined && v !== '')
+    .map(([k, v]) => `${k}: ${typeof v === 'object' ? JSON.stringify(v) : String(v)}`);
+  return parts.length ? parts.join(' · ') : 'empty row';
 }
