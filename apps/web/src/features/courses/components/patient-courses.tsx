@@ -19,7 +19,13 @@ export function describeTarget(t: Target): string {
     'peak-mic-ratio': 'peak/MIC',
     css: 'Css',
   }[t.metric];
-  if (t.low !== null && t.high !== null) return `${name} ${show(t.low)}–${show(t.high)}`;
+  if (t.low !== null && t.high !== null) {
+    // "AUC24 400–600 mg·h/L": the unit once, after the range.
+    const [low, high] = [show(t.low), show(t.high)];
+    const unit = high.replace(/^[-\d.,\s]+/, '');
+    const lowNumber = unit && low.endsWith(unit) ? low.slice(0, -unit.length).trim() : low;
+    return `${name} ${lowNumber}–${high}`;
+  }
   if (t.low !== null) return `${name} ≥ ${show(t.low)}`;
   return `${name} ≤ ${show(t.high)}`;
 }
