@@ -39,6 +39,83 @@ function pageCount(file: string): number {
   return Number(/Pages:\s+(\d+)/.exec(info)?.[1]);
 }
 
+// A4 in points; the body lies between the header rule (y 56) and the footer rule (y 782).
+const PAGE_H = 841.89;
+const BODY_TOP = 60;
+const FOOTER_TOP = 778;
+
+const SECTION_HEADINGS = [
+  'Patient and course',
+  'Recommendation',
+  'Warnings and cautions',
+  'Covariates',
+  'Derived values',
+  'Doses',
+  'Levels',
+  'Fit',
+  'Regimens compared',
+  'Administration times',
+  'Next levels',
+  'Rationale',
+  'Signatures',
+];
+
+/** The non-empty lines of one page's body (header and footer cut away), trimmed. */
+function bodyLines(file: string, page: number): string[] {
+  const crop = [
+    '-x',
+    '0',
+    '-y',
+    String(BODY_TOP),
+    '-W',
+    '600',
+    '-H',
+    String(FOOTER_TOP - BODY_TOP),
+  ];
+  const args = ['-layout', '-f', String(page), '-l', String(page), ...crop, '-enc', 'UTF-8'];
+  return execFileSync('pdftotext', [...args, file, '-'], { encoding: 'utf8' })
+    .split('\n')
+    .map((l) => l.replace(/\s+/g, ' ').trim())
+    .filter(Boolean);
+}
+
+interface WordBox {
+  text: string;
+  xMin: number;
+  yMin: number;
+  xMax: number;
+  yMax: number;
+}
+
+/** Every word of one page with its box in points (pdftotext -bbox). */
+function wordBoxes(file: string, page: number): WordBox[] {
+  const html = execFileSync(
+    'pdftotext',
+    ['-bbox', '-f', String(page), '-l', String(page), '-enc', 'UTF-8', file, '-'],
+    { encoding: 'utf8' },
+  );
+  const re =
+    /<word xMin="([\d.]+)" yMin="([\d.]+)" xMax="([\d.]+)" yMax="([\d.]+)">([^<]*)<\/word>/g;
+  return [...html.matchAll(re)].map((m) => ({
+    xMin: Number(m[1]),
+    yMin: Number(m[2]),
+    xMax: Number(m[3]),
+    yMax: Number(m[4]),
+    text: m[5]!,
+  }));
+}
+
+const overlaps = (a: WordBox, b: WordBox) =>
+  a.xMin < b.xMax - 0.5 && b.xMin < a.xMax - 0.5 && a.yMin < b.yMax - 0.5 && b.yMin < a.yMax - 0.5;
+
+/** Asserts no page's body ends with a section heading: a heading always has content under it. */
+function expectNoOrphanHeadings(file: string): void {
+  for (let p = 1; p <= pageCount(file); p++) {
+    const lines = bodyLines(file, p);
+    expect(SECTION_HEADINGS, `page ${p} ends with a heading`).not.toContain(lines.at(-1));
+  }
+}
+
 describe('renderPlanReport(model)', () => {
   let file: string;
   let text: string;
@@ -113,6 +190,18 @@ describe('renderPlanReport(model)', () => {
     }
   });
 
+  it('when rendered, then no page ends with a section heading and the fit plot shares a page with its heading', () => {
+    expectNoOrphanHeadings(file);
+    const pages = pageCount(file);
+    const fitPage = [...Array(pages).keys()]
+      .map((i) => i + 1)
+      .find((p) => bodyLines(file, p).includes('Fit'));
+    expect(fitPage).toBeDefined();
+    const fitBody = bodyLines(file, fitPage!).join(' ');
+    expect(fitBody).toContain('Method: Bayesian MAP estimate');
+    expect(fitBody).toContain('Time since first dose (h)');
+  });
+
   it('when rendered, then Noto Sans is embedded (pdffonts)', () => {
     const fonts = execFileSync('pdffonts', [file], { encoding: 'utf8' });
     const noto = fonts.split('\n').filter((l) => /NotoSans-(Regular|Bold)/.test(l));
@@ -167,6 +256,48 @@ describe('renderPlanReport(model) with a long dose list', () => {
       expect(page).toMatch(/# Start Amount Route Duration Status Note/);
     expect(textOf(file)).toContain('125 ');
   });
+});
+
+describe('renderPlanReport(model) page breaks and footer', () => {
+  it('when sections land at different places on the page, then no heading is left at the foot of a page', async () => {
+    for (const extraDoses of [3, 9, 15, 21]) {
+      const { file } = await render('plan-report-breaks', planReportModelFixture({ extraDoses }));
+      expectNoOrphanHeadings(file);
+    }
+  });
+
+  it.each([
+    [
+      'a UUID',
+      '3f9c2a7e-81b4-4d2f-9e6a-0c5b7d1e4a92',
+      'Plan 3f9c2a7e-81b4-4d2f-9e6a-0c5b7d1e4a92 v2',
+    ],
+    ['a very long id', `PLAN-${'X7'.repeat(150)}`, 'Plan PLAN-X7X…'],
+  ])(
+    'when the plan id is %s, then the footer parts never overlap and all appear on every page',
+    async (_label, id, planText) => {
+      const model = planReportModelFixture({ status: 'draft', extraDoses: 30 });
+      model.plan.id = id;
+      const { file } = await render('plan-report-long-id', model);
+      const pages = pageCount(file);
+      expect(pages).toBeGreaterThanOrEqual(2);
+      for (let p = 1; p <= pages; p++) {
+        const footer = wordBoxes(file, p).filter((b) => b.yMin >= FOOTER_TOP);
+        const footerText = footer.map((b) => b.text).join(' ');
+        expect(footerText).toContain(`Page ${p} of ${pages}`);
+        expect(footerText).toContain(planText);
+        expect(footerText).toContain('Draft – not submitted');
+        expect(footerText).toContain('Generated 3 Dec 2026 14:05 UTC+10 by Priya Halvorsen');
+        for (const b of footer) expect(b.yMax).toBeLessThan(PAGE_H);
+        for (let i = 0; i < footer.length; i++)
+          for (let j = i + 1; j < footer.length; j++)
+            expect(
+              overlaps(footer[i]!, footer[j]!),
+              `page ${p}: "${footer[i]!.text}" overlaps "${footer[j]!.text}"`,
+            ).toBe(false);
+      }
+    },
+  );
 });
 
 describe('renderPlanReport(model) states and teaching cases', () => {

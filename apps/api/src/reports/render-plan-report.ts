@@ -40,6 +40,10 @@ const CAUTION = '#8a3b12';
 const MARGIN = 48;
 const HEADER_H = 26;
 const FOOTER_H = 30;
+/** Vertical space the concentration–time plot takes, legend included. */
+const PLOT_SPACE = 260;
+/** A plan id longer than this is shortened in the footer when the footer would not fit. */
+const SHORT_ID_LENGTH = 8;
 
 /**
  * Noto Sans has no glyph for these; they are written as words (ISMP also prefers words to the
@@ -205,9 +209,31 @@ class ReportWriter {
     if (this.doc.y + height > this.bottom) this.doc.addPage();
   }
 
-  private heading(text: string, keepWith = 40): void {
-    this.ensureSpace(24 + keepWith);
+  /** Height of the body area of a page, between header and footer. */
+  private get pageBodyHeight(): number {
+    const { page } = this.doc;
+    return page.height - page.margins.top - page.margins.bottom;
+  }
+
+  /** Height `heading(text)` takes, from the current y to where its first block starts. */
+  private headingHeight(text: string): number {
     const { doc } = this;
+    doc.font('regular').fontSize(9);
+    const gap = doc.currentLineHeight(true) * 0.6;
+    doc.font('bold').fontSize(11.5);
+    const h = doc.heightOfString(text, { width: this.width });
+    doc.font('regular').fontSize(9);
+    return gap + h + 6;
+  }
+
+  /**
+   * A section heading, kept with the first block under it: `firstBlock` is that block's height,
+   * and when heading and block do not both fit, the heading starts a new page.
+   */
+  private heading(text: string, firstBlock: number): void {
+    const { doc } = this;
+    this.ensureSpace(this.headingHeight(text) + firstBlock);
+    doc.font('regular').fontSize(9);
     doc.moveDown(0.6);
     doc
       .font('bold')
@@ -240,8 +266,43 @@ class ReportWriter {
     doc.font('regular').fontSize(9).fillColor(INK);
   }
 
+  private paragraphHeight(text: string, opts: { font?: string; size?: number } = {}): number {
+    const { doc } = this;
+    doc.font(opts.font ?? 'regular').fontSize(opts.size ?? 9);
+    const h = doc.heightOfString(text, { width: this.width });
+    doc.font('regular').fontSize(9);
+    return h;
+  }
+
+  /** What must stay on the page with a paragraph's heading: the paragraph, or its start. */
+  private paragraphLead(text: string, opts: { font?: string; size?: number } = {}): number {
+    return Math.min(this.paragraphHeight(text, opts), 40);
+  }
+
   private none(text: string): void {
     this.paragraph(text, { font: 'italic', color: MUTED });
+  }
+
+  /** A heading followed by the italic "nothing here" line. */
+  private emptySection(heading: string, text: string): void {
+    this.heading(heading, this.paragraphLead(text, { font: 'italic' }));
+    this.none(text);
+  }
+
+  /** The line height `doc.moveDown(lines)` moves by, in the regular body font. */
+  private lines(n: number): number {
+    this.doc.font('regular').fontSize(9);
+    return this.doc.currentLineHeight(true) * n;
+  }
+
+  private factsRowHeight(row: Array<[string, string]>): number {
+    const { doc } = this;
+    const colW = this.width / 2;
+    const labelW = 92;
+    doc.fontSize(9);
+    return Math.max(
+      ...row.map(([, v]) => doc.font('regular').heightOfString(v, { width: colW - labelW - 8 })),
+    );
   }
 
   /** Key/value pairs in two columns. */
@@ -251,10 +312,7 @@ class ReportWriter {
     const labelW = 92;
     for (let i = 0; i < pairs.length; i += 2) {
       const row = pairs.slice(i, i + 2);
-      doc.fontSize(9);
-      const h = Math.max(
-        ...row.map(([, v]) => doc.font('regular').heightOfString(v, { width: colW - labelW - 8 })),
-      );
+      const h = this.factsRowHeight(row);
       this.ensureSpace(h + 3);
       const y = doc.y;
       row.forEach(([k, v], j) => {
@@ -273,6 +331,60 @@ class ReportWriter {
     doc.x = this.left;
   }
 
+  private static readonly TABLE_PAD = 3;
+  private static readonly TABLE_SIZE = 8.5;
+
+  private tableHeaderHeight(columns: Column[]): number {
+    const { doc } = this;
+    const pad = ReportWriter.TABLE_PAD;
+    doc.font('bold').fontSize(ReportWriter.TABLE_SIZE);
+    const h =
+      Math.max(
+        ...columns.map((c) =>
+          doc.heightOfString(c.header, { width: c.width * this.width - 2 * pad }),
+        ),
+      ) +
+      2 * pad;
+    doc.font('regular').fontSize(9);
+    return h;
+  }
+
+  /**
+   * Height of a table's header row and its first `count` rows (all rows when omitted): what a
+   * heading must keep with it is the header row and the first row.
+   */
+  private tableHeight(
+    columns: Column[],
+    rows: string[][],
+    opts: { highlight?: (i: number) => boolean } = {},
+    count = rows.length,
+  ): number {
+    const widths = columns.map((c) => c.width * this.width);
+    let h = this.tableHeaderHeight(columns);
+    rows.slice(0, count).forEach((row, r) => {
+      h += this.rowHeight(
+        row,
+        widths,
+        ReportWriter.TABLE_PAD,
+        ReportWriter.TABLE_SIZE,
+        opts.highlight?.(r) ?? false,
+      );
+    });
+    this.doc.font('regular').fontSize(9);
+    return h;
+  }
+
+  /** A table under its own heading, kept with the header row and first row. */
+  private tableSection(
+    heading: string,
+    columns: Column[],
+    rows: string[][],
+    opts: { highlight?: (i: number) => boolean } = {},
+  ): void {
+    this.heading(heading, this.tableHeight(columns, rows, opts, 1));
+    this.table(columns, rows, opts);
+  }
+
   /** A table that breaks across pages and repeats its header row on each new page. */
   private table(
     columns: Column[],
@@ -280,16 +392,13 @@ class ReportWriter {
     opts: { highlight?: (i: number) => boolean } = {},
   ): void {
     const { doc } = this;
-    const pad = 3;
+    const pad = ReportWriter.TABLE_PAD;
     const widths = columns.map((c) => c.width * this.width);
-    const size = 8.5;
+    const size = ReportWriter.TABLE_SIZE;
+    const headerH = this.tableHeaderHeight(columns);
     const drawHeader = () => {
       doc.font('bold').fontSize(size);
-      const h =
-        Math.max(
-          ...columns.map((c, i) => doc.heightOfString(c.header, { width: widths[i]! - 2 * pad })),
-        ) +
-        2 * pad;
+      const h = headerH;
       const y = doc.y;
       doc.rect(this.left, y, this.width, h).fill(FILL);
       let x = this.left;
@@ -303,15 +412,7 @@ class ReportWriter {
       doc.y = y + h;
       doc.font('regular').fillColor(INK);
     };
-    doc.font('bold').fontSize(size);
-    const headerH =
-      Math.max(
-        ...columns.map((c, i) => doc.heightOfString(c.header, { width: widths[i]! - 2 * pad })),
-      ) +
-      2 * pad;
-    doc.font('regular');
-    const firstRowH = rows[0] ? this.rowHeight(rows[0], widths, pad, size, false) : 0;
-    this.ensureSpace(headerH + firstRowH);
+    this.ensureSpace(this.tableHeight(columns, rows, opts, 1));
     drawHeader();
     rows.forEach((row, r) => {
       const highlighted = opts.highlight?.(r) ?? false;
@@ -426,7 +527,6 @@ class ReportWriter {
     const { m } = this;
     const p = m.patient;
     const c = m.course;
-    this.heading('Patient and course');
     const target =
       `${c.target.metric} ${c.target.low != null ? formatNumber(c.target.low) : ''}` +
       `${c.target.low != null && c.target.high != null ? '–' : ''}` +
@@ -460,15 +560,15 @@ class ReportWriter {
     );
     if (c.startedAt) pairs.push(['Course start', this.t(c.startedAt)]);
     if (m.plan.recheckDueAt) pairs.push(['Re-check by', this.t(m.plan.recheckDueAt, true)]);
+    this.heading('Patient and course', this.factsRowHeight(pairs.slice(0, 2)) + 3);
     this.facts(pairs);
   }
 
   private recommendation(): void {
     const { doc, m } = this;
     const chosen = m.regimens.find((r) => r.chosen);
-    this.heading('Recommendation', 50);
     if (!chosen) {
-      this.none('No regimen has been chosen in this plan.');
+      this.emptySection('Recommendation', 'No regimen has been chosen in this plan.');
       return;
     }
     const first = m.administration[0];
@@ -487,6 +587,7 @@ class ReportWriter {
     doc.font('regular').fontSize(9);
     const h2 = doc.heightOfString(predicted, { width: this.width - 16 });
     const h = h1 + h2 + 16;
+    this.heading('Recommendation', h);
     this.ensureSpace(h);
     const y = doc.y;
     doc.rect(this.left, y, this.width, h).lineWidth(0.8).strokeColor(RULE).stroke();
@@ -507,23 +608,26 @@ class ReportWriter {
 
   private warnings(): void {
     const { doc, m } = this;
-    this.heading('Warnings and cautions', 20);
     if (m.warnings.length === 0) {
-      this.none('No warnings were raised for this plan.');
+      this.emptySection('Warnings and cautions', 'No warnings were raised for this plan.');
       return;
     }
-    for (const w of m.warnings) {
-      const label = w.severity === 'warning' ? 'Warning' : 'Caution';
+    const label = (w: PlanReportModel['warnings'][number]) =>
+      w.severity === 'warning' ? 'Warning' : 'Caution';
+    const height = (w: PlanReportModel['warnings'][number]) => {
       doc.font('regular').fontSize(9);
-      const text = `${label}: ${w.text}`;
-      const h = doc.heightOfString(text, { width: this.width - 14 });
+      return doc.heightOfString(`${label(w)}: ${w.text}`, { width: this.width - 14 });
+    };
+    this.heading('Warnings and cautions', height(m.warnings[0]!) + 4);
+    for (const w of m.warnings) {
+      const h = height(w);
       this.ensureSpace(h + 4);
       const y = doc.y;
       doc.rect(this.left, y + 1, 4, h - 2).fill(w.severity === 'warning' ? CAUTION : MUTED);
       doc
         .font('bold')
         .fillColor(w.severity === 'warning' ? CAUTION : INK)
-        .text(`${label}: `, this.left + 10, y, {
+        .text(`${label(w)}: `, this.left + 10, y, {
           width: this.width - 14,
           continued: true,
         });
@@ -535,9 +639,10 @@ class ReportWriter {
 
   private covariates(): void {
     const { m } = this;
-    this.heading('Covariates');
-    if (m.covariates.length === 0) return this.none('No covariates recorded.');
-    this.table(
+    if (m.covariates.length === 0)
+      return this.emptySection('Covariates', 'No covariates recorded.');
+    this.tableSection(
+      'Covariates',
       [
         { header: 'Covariate', width: 0.24 },
         { header: 'Value', width: 0.2, align: 'right' },
@@ -557,9 +662,9 @@ class ReportWriter {
 
   private derived(): void {
     const { m } = this;
-    this.heading('Derived values');
-    if (m.derived.length === 0) return this.none('No derived values.');
-    this.table(
+    if (m.derived.length === 0) return this.emptySection('Derived values', 'No derived values.');
+    this.tableSection(
+      'Derived values',
       [
         { header: 'Value', width: 0.2 },
         { header: 'Result', width: 0.2, align: 'right' },
@@ -575,9 +680,9 @@ class ReportWriter {
 
   private doses(): void {
     const { m } = this;
-    this.heading('Doses');
-    if (m.doses.length === 0) return this.none('No doses recorded.');
-    this.table(
+    if (m.doses.length === 0) return this.emptySection('Doses', 'No doses recorded.');
+    this.tableSection(
+      'Doses',
       [
         { header: '#', width: 0.06, align: 'right' },
         { header: 'Start', width: 0.22 },
@@ -601,9 +706,9 @@ class ReportWriter {
 
   private levels(): void {
     const { m } = this;
-    this.heading('Levels');
-    if (m.levels.length === 0) return this.none('No levels measured.');
-    this.table(
+    if (m.levels.length === 0) return this.emptySection('Levels', 'No levels measured.');
+    this.tableSection(
+      'Levels',
       [
         { header: 'Sampled', width: 0.22 },
         { header: 'Result', width: 0.15, align: 'right' },
@@ -624,26 +729,22 @@ class ReportWriter {
   private fit(): void {
     const { m } = this;
     const fit = m.fit;
-    this.heading('Fit', 120);
-    if (!fit) return this.none('No fit: this plan uses population values only.');
-    this.paragraph(`Method: ${fit.method}`);
-    this.doc.moveDown(0.3);
-    this.table(
-      [
-        { header: 'Parameter', width: 0.3 },
-        { header: 'Estimate', width: 0.18, align: 'right' },
-        { header: '90% interval', width: 0.26, align: 'right' },
-        { header: 'Population', width: 0.26, align: 'right' },
-      ],
-      fit.estimates.map((e) => [
-        e.name,
-        `${formatNumber(e.value, 3)} ${e.unit}`,
-        e.lower90 != null && e.upper90 != null
-          ? `${formatNumber(e.lower90, 3)} to ${formatNumber(e.upper90, 3)} ${e.unit}`
-          : 'not available',
-        e.population != null ? `${formatNumber(e.population, 3)} ${e.unit}` : '',
-      ]),
-    );
+    if (!fit) return this.emptySection('Fit', 'No fit: this plan uses population values only.');
+    const method = `Method: ${fit.method}`;
+    const columns: Column[] = [
+      { header: 'Parameter', width: 0.3 },
+      { header: 'Estimate', width: 0.18, align: 'right' },
+      { header: '90% interval', width: 0.26, align: 'right' },
+      { header: 'Population', width: 0.26, align: 'right' },
+    ];
+    const rows = fit.estimates.map((e) => [
+      e.name,
+      `${formatNumber(e.value, 3)} ${e.unit}`,
+      e.lower90 != null && e.upper90 != null
+        ? `${formatNumber(e.lower90, 3)} to ${formatNumber(e.upper90, 3)} ${e.unit}`
+        : 'not available',
+      e.population != null ? `${formatNumber(e.population, 3)} ${e.unit}` : '',
+    ]);
     const extra = [
       fit.objective != null
         ? `Objective (−2 log posterior): ${formatNumber(fit.objective, 2)}`
@@ -653,9 +754,28 @@ class ReportWriter {
         : null,
       fit.note ?? null,
     ].filter(Boolean);
+    const extraText = extra.join('   ·   ');
+    // Heading, method caption, estimates and plot move to a new page together when they fit on
+    // one; otherwise the heading keeps at least the caption, the header row and the first row.
+    const lead = this.paragraphHeight(method) + this.lines(0.3);
+    const whole =
+      lead +
+      this.tableHeight(columns, rows) +
+      (extra.length ? this.lines(0.3) + this.paragraphHeight(extraText) : 0) +
+      PLOT_SPACE;
+    const headingH = this.headingHeight('Fit');
+    this.heading(
+      'Fit',
+      headingH + whole <= this.pageBodyHeight
+        ? whole
+        : lead + this.tableHeight(columns, rows, {}, 1),
+    );
+    this.paragraph(method);
+    this.doc.moveDown(0.3);
+    this.table(columns, rows);
     if (extra.length) {
       this.doc.moveDown(0.3);
-      this.paragraph(extra.join('   ·   '), { color: MUTED });
+      this.paragraph(extraText, { color: MUTED });
     }
     this.plot(fit.plot);
   }
@@ -663,8 +783,7 @@ class ReportWriter {
   /** Concentration–time plot drawn as vectors. */
   private plot(p: PlanReportPlot): void {
     const { doc } = this;
-    const totalH = 250;
-    this.ensureSpace(totalH + 10);
+    this.ensureSpace(PLOT_SPACE);
     doc.moveDown(0.5);
     const top = doc.y;
     const box = { x: this.left + 46, y: top + 8, w: this.width - 56, h: 180 };
@@ -849,9 +968,10 @@ class ReportWriter {
 
   private regimens(): void {
     const { m } = this;
-    this.heading('Regimens compared');
-    if (m.regimens.length === 0) return this.none('No regimens were compared.');
-    this.table(
+    if (m.regimens.length === 0)
+      return this.emptySection('Regimens compared', 'No regimens were compared.');
+    this.tableSection(
+      'Regimens compared',
       [
         { header: 'Dose', width: 0.21, align: 'right' },
         { header: 'Every', width: 0.09, align: 'right' },
@@ -878,9 +998,10 @@ class ReportWriter {
 
   private administration(): void {
     const { m } = this;
-    this.heading('Administration times');
-    if (m.administration.length === 0) return this.none('No administration times planned.');
-    this.table(
+    if (m.administration.length === 0)
+      return this.emptySection('Administration times', 'No administration times planned.');
+    this.tableSection(
+      'Administration times',
       [
         { header: 'Start', width: 0.26 },
         { header: 'Dose', width: 0.24, align: 'right' },
@@ -900,9 +1021,10 @@ class ReportWriter {
 
   private sampling(): void {
     const { m } = this;
-    this.heading('Next levels');
-    if (m.sampling.length === 0) return this.none('No further levels planned.');
-    this.table(
+    if (m.sampling.length === 0)
+      return this.emptySection('Next levels', 'No further levels planned.');
+    this.tableSection(
+      'Next levels',
       [
         { header: 'Draw at', width: 0.22 },
         { header: 'Level', width: 0.1 },
@@ -935,37 +1057,61 @@ class ReportWriter {
 
   private rationale(): void {
     const { m } = this;
-    this.heading('Rationale', 20);
-    if (!m.rationale?.trim()) return this.none('No rationale recorded.');
+    if (!m.rationale?.trim()) return this.emptySection('Rationale', 'No rationale recorded.');
+    this.heading('Rationale', this.paragraphLead(m.rationale.trim()));
     this.paragraph(m.rationale.trim());
+  }
+
+  private signatureBlock(s: PlanReportModel['signatures'][number]): {
+    lines: Array<[string, string]>;
+    h: number;
+  } {
+    const { doc } = this;
+    const lines: Array<[string, string]> = [
+      ['Signed by', `${s.name}, ${s.role}`],
+      ['Meaning', s.meaning],
+      ['Date and time', this.t(s.signedAt, true)],
+      ['Content hash', s.contentHash],
+    ];
+    if (s.comment) lines.push(['Comment', s.comment]);
+    doc.fontSize(9);
+    const valueW = this.width - 120;
+    const h =
+      lines.reduce(
+        (sum, [, v]) => sum + doc.font('regular').heightOfString(v, { width: valueW }) + 2,
+        0,
+      ) + 12;
+    return { lines, h };
   }
 
   private signatures(): void {
     const { doc, m } = this;
-    this.heading('Signatures', 70);
-    this.paragraph(`Plan content hash (SHA-256): ${m.plan.contentHash}`, { size: 8, color: MUTED });
+    const hashLine = `Plan content hash (SHA-256): ${m.plan.contentHash}`;
+    const notSigned = 'Not signed.';
+    const notCountersigned = 'Not countersigned by a reviewing pharmacist.';
+    const warnNotCountersigned =
+      m.signatures.length > 0 && !m.signatures.some((s) => s.meaning.startsWith('reviewed'));
+    // The heading stays with the hash line and the first signature block (or its absence).
+    const first = m.signatures[0];
+    const firstBlock =
+      this.paragraphHeight(hashLine, { size: 8 }) +
+      this.lines(0.3) +
+      (warnNotCountersigned ? this.paragraphHeight(notCountersigned, { font: 'bold' }) : 0) +
+      (first
+        ? this.signatureBlock(first).h + 6
+        : this.paragraphLead(notSigned, { font: 'italic' }));
+    this.heading('Signatures', firstBlock);
+    this.paragraph(hashLine, { size: 8, color: MUTED });
     doc.moveDown(0.3);
-    if (m.signatures.length === 0) return this.none('Not signed.');
-    if (!m.signatures.some((s) => s.meaning.startsWith('reviewed')))
-      this.paragraph('Not countersigned by a reviewing pharmacist.', {
+    if (m.signatures.length === 0) return this.none(notSigned);
+    if (warnNotCountersigned)
+      this.paragraph(notCountersigned, {
         font: 'bold',
         color: CAUTION,
       });
     for (const s of m.signatures) {
-      const lines: Array<[string, string]> = [
-        ['Signed by', `${s.name}, ${s.role}`],
-        ['Meaning', s.meaning],
-        ['Date and time', this.t(s.signedAt, true)],
-        ['Content hash', s.contentHash],
-      ];
-      if (s.comment) lines.push(['Comment', s.comment]);
-      doc.fontSize(9);
+      const { lines, h } = this.signatureBlock(s);
       const valueW = this.width - 120;
-      const h =
-        lines.reduce(
-          (sum, [, v]) => sum + doc.font('regular').heightOfString(v, { width: valueW }) + 2,
-          0,
-        ) + 12;
       this.ensureSpace(h + 6);
       const y = doc.y;
       doc.rect(this.left, y, this.width, h).lineWidth(0.8).strokeColor(RULE).stroke();
@@ -986,6 +1132,56 @@ class ReportWriter {
       doc.y = y + h + 6;
     }
     doc.x = this.left;
+  }
+
+  /**
+   * Where the footer's parts go, measured so they never overlap: plan id, version and status on
+   * the left, the generated time in the middle and "Page N of M" on the right when all three fit
+   * on one line; otherwise the generated time moves to a second line. A plan id too long for the
+   * line is shortened to its first characters (the title block prints it in full). x offsets
+   * are from the left margin; rows are 0 or 1.
+   */
+  private footerLayout(
+    w: number,
+    total: number,
+  ): {
+    plan: string;
+    planX: number;
+    planRow: 0;
+    generated: string;
+    generatedX: number;
+    generatedRow: 0 | 1;
+  } {
+    const { doc, m } = this;
+    const gap = 14;
+    doc.font('bold').fontSize(7.5);
+    const pageW = doc.widthOfString(`Page ${total} of ${total}`);
+    doc.font('regular').fontSize(7.5);
+    const planLabel = (id: string) =>
+      `Plan ${id} v${m.plan.version} · ${STATUS_LABEL[m.plan.status]}`;
+    const fits = (text: string, room: number) => doc.widthOfString(text) <= room;
+    const shortId = `${m.plan.id.slice(0, SHORT_ID_LENGTH)}…`;
+    const generated = fitToWidth(
+      doc,
+      `Generated ${this.t(m.generatedAt, true)}${m.generatedBy ? ` by ${m.generatedBy}` : ''}`,
+      w,
+    );
+    const genW = doc.widthOfString(generated);
+    const full = planLabel(m.plan.id);
+    // One line: the generated time centred in the space between plan label and page number.
+    const planW = doc.widthOfString(full);
+    if (planW + gap + genW + gap + pageW <= w) {
+      const free = w - planW - pageW;
+      const centred = (w - genW) / 2;
+      const generatedX = Math.min(Math.max(centred, planW + gap), planW + free - gap - genW);
+      return { plan: full, planX: 0, planRow: 0, generated, generatedX, generatedRow: 0 };
+    }
+    // Two lines: plan label and page number, then the generated time.
+    const room = w - gap - pageW;
+    const plan = fits(full, room)
+      ? full
+      : fitToWidth(doc, m.plan.id.length > SHORT_ID_LENGTH ? planLabel(shortId) : full, room);
+    return { plan, planX: 0, planRow: 0, generated, generatedX: 0, generatedRow: 1 };
   }
 
   /** Header and footer on every page: "Page N of M", generated time, plan id and version. */
@@ -1030,35 +1226,26 @@ class ReportWriter {
         .lineWidth(0.5)
         .strokeColor(RULE)
         .stroke();
-      doc
-        .font('regular')
-        .fontSize(7.5)
-        .fillColor(MUTED)
-        .text(`Plan ${m.plan.id} v${m.plan.version} · ${STATUS_LABEL[m.plan.status]}`, MARGIN, fy, {
-          width: w * 0.45,
-          lineBreak: false,
-        });
-      doc.text(
-        `Generated ${this.t(m.generatedAt, true)}${m.generatedBy ? ` by ${m.generatedBy}` : ''}`,
-        MARGIN + w * 0.35,
-        fy,
-        {
-          width: w * 0.45,
-          align: 'center',
-          lineBreak: false,
-        },
-      );
-      doc
-        .font('bold')
-        .fillColor(INK)
-        .text(`Page ${i - range.start + 1} of ${total}`, MARGIN + w * 0.8, fy, {
-          width: w * 0.2,
-          align: 'right',
-          lineBreak: false,
-        });
+      const footer = this.footerLayout(w, total);
+      const pageLabel = `Page ${i - range.start + 1} of ${total}`;
+      doc.font('regular').fontSize(7.5).fillColor(MUTED);
+      doc.text(footer.plan, MARGIN + footer.planX, fy + footer.planRow * 10, { lineBreak: false });
+      doc.text(footer.generated, MARGIN + footer.generatedX, fy + footer.generatedRow * 10, {
+        lineBreak: false,
+      });
+      doc.font('bold').fillColor(INK);
+      doc.text(pageLabel, MARGIN + w - doc.widthOfString(pageLabel), fy, { lineBreak: false });
       doc.page.margins.bottom = savedBottom;
     }
   }
+}
+
+/** `text`, cut with an ellipsis where needed so that it is at most `width` wide in the current font. */
+function fitToWidth(doc: Doc, text: string, width: number): string {
+  if (doc.widthOfString(text) <= width) return text;
+  let n = text.length;
+  while (n > 1 && doc.widthOfString(`${text.slice(0, n)}…`) > width) n--;
+  return `${text.slice(0, n)}…`;
 }
 
 /** Round tick values covering [min, max] with about `count` steps (1, 2, 2.5 or 5 × 10^k). */
