@@ -1,7 +1,13 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createTestApp } from './helpers';
 import { anonymousAgent, signedInAgent, type SignedInClient } from './support/sign-in';
-import { createCourse, createRealPatient, ensureTestModels, hoursAgo } from './casework-helpers';
+import {
+  createCourse,
+  createRealPatient,
+  createTeachingPatient,
+  ensureTestModels,
+  hoursAgo,
+} from './casework-helpers';
 
 const { app, db } = createTestApp();
 let pharmacist: SignedInClient;
@@ -95,6 +101,19 @@ describe('GET /api/caseload', () => {
     // Assert
     expect(res.status).toBe(200);
     expect(res.body.items.every((i: Item) => i.patient.isTeaching)).toBe(true);
+  });
+
+  it('when a pharmacist has a teaching course, then the clinical caseload leaves it out and the trainee sees it', async () => {
+    // Arrange
+    const practice = await createTeachingPatient(pharmacist);
+    const teachingCourse = await createCourse(pharmacist, practice.id);
+    // Act
+    const staff = await pharmacist.get('/api/caseload?scope=all&pageSize=100');
+    const learner = await trainee.get('/api/caseload?scope=all&pageSize=100');
+    // Assert
+    expect(staff.body.items.map((i: Item) => i.courseId)).not.toContain(teachingCourse.id);
+    expect(staff.body.items.every((i: Item) => !i.patient.isTeaching)).toBe(true);
+    expect(learner.body.items.map((i: Item) => i.courseId)).toContain(teachingCourse.id);
   });
 
   it('when the sort is unknown, then it answers 400; signed out, 401', async () => {

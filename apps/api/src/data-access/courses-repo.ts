@@ -7,7 +7,7 @@ import {
   type Conn,
   type UpdateOutcome,
 } from './casework-db';
-import type { ScopedActor } from './scope';
+import { seesIdentifiablePatients, type ScopedActor } from './scope';
 
 export interface CourseRecord {
   id: string;
@@ -144,6 +144,9 @@ export async function activeCourses(
     'courses',
   );
   if (ownerUserId) q.where('courses.owner_user_id', ownerUserId);
+  // The clinical caseload of staff who see real patients holds real patients only; teaching
+  // cases live under Teaching cases (everyone else's scope already restricts to them).
+  if (seesIdentifiablePatients(actor)) q.where('courses.is_teaching', false);
   const rows = (await q.orderBy('courses.created_at')) as CourseRow[];
   return rows.map(toCourseRecord);
 }
