@@ -17,7 +17,7 @@ export const UMOL_PER_MG: Record<Drug, number> = {
 
 /**
  * Upper bound of a plausible measured level in mg/L, above which the value is refused as a likely
- * unit or transcription error (practice; well above any toxic level reported for these assays).
+ * unit or data-entry error (practice; well above any toxic level reported for these assays).
  */
 export const PLAUSIBLE_MAX_MG_L: Record<Drug, number> = {
   vancomycin: 150,
