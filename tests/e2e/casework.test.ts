@@ -1,7 +1,8 @@
 import path from 'node:path';
 import { randomBytes } from 'node:crypto';
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
-import type { APIRequestContext, Page } from 'playwright-core';
+import type { Page } from 'playwright-core';
+import { api } from '../support/api';
 import { launchBrowser, screenshotDir } from '../support/browser';
 import { DEMO_LOGINS, fillProviderSignIn } from '../support/sign-in';
 
@@ -15,21 +16,6 @@ const shot = (name: string) =>
 function localInput(d: Date): string {
   const p = (n: number) => String(n).padStart(2, '0');
   return `${d.getFullYear()}-${p(d.getMonth() + 1)}-${p(d.getDate())}T${p(d.getHours())}:${p(d.getMinutes())}`;
-}
-
-async function api<T>(
-  request: APIRequestContext,
-  method: 'get' | 'post',
-  url: string,
-  data?: unknown,
-): Promise<T> {
-  const res = await request[method](`${inject('baseUrl')}${url}`, {
-    headers: { Origin: inject('baseUrl') },
-    ...(data === undefined ? {} : { data }),
-  });
-  if (!res.ok())
-    throw new Error(`${method.toUpperCase()} ${url}: ${res.status()} ${await res.text()}`);
-  return (await res.json()) as T;
 }
 
 // The test's own patient, course and doses: three 1 g infusions over 1 h, 12 h apart, the first 30 h ago.

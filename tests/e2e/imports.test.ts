@@ -1,7 +1,8 @@
 import path from 'node:path';
 import { randomBytes } from 'node:crypto';
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
-import type { APIRequestContext, Page } from 'playwright-core';
+import type { Page } from 'playwright-core';
+import { api } from '../support/api';
 import { drugModelLibrary } from '../../packages/kinetics/src/index';
 import { createDb } from '../../apps/api/src/data-access/db';
 import { syncEngineLibrary } from '../../apps/api/src/domain/drug-models/drug-models';
@@ -14,21 +15,6 @@ const consoleErrors: string[] = [];
 const csvPanel = () => page.getByRole('region', { name: 'CSV upload' });
 const shot = (name: string) =>
   page.screenshot({ path: path.join(screenshotDir, `imports-${name}.png`), fullPage: true });
-
-async function api<T>(
-  request: APIRequestContext,
-  method: 'get' | 'post',
-  url: string,
-  data?: unknown,
-): Promise<T> {
-  const res = await request[method](`${inject('baseUrl')}${url}`, {
-    headers: { Origin: inject('baseUrl') },
-    ...(data === undefined ? {} : { data }),
-  });
-  if (!res.ok())
-    throw new Error(`${method.toUpperCase()} ${url}: ${res.status()} ${await res.text()}`);
-  return (await res.json()) as T;
-}
 
 // The test's own course: three 1 g infusions over 1 h, 12 h apart, the first 30 h ago.
 const hour = 3_600_000;

@@ -3,7 +3,8 @@ import { existsSync, statSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { randomBytes } from 'node:crypto';
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
-import type { APIRequestContext, BrowserContext, Page } from 'playwright-core';
+import type { BrowserContext, Page } from 'playwright-core';
+import { api } from '../support/api';
 import { drugModelLibrary, vancomycinGoti2018 } from '../../packages/kinetics/src/index';
 import { createDb } from '../../apps/api/src/data-access/db';
 import { syncEngineLibrary } from '../../apps/api/src/domain/drug-models/drug-models';
@@ -18,21 +19,6 @@ const hour = 3_600_000;
 const ago = (h: number) => new Date(Date.now() - h * hour).toISOString();
 let courseId = '';
 let planId = '';
-
-async function api<T>(
-  request: APIRequestContext,
-  method: 'get' | 'post',
-  url: string,
-  data?: unknown,
-): Promise<T> {
-  const res = await request[method](`${inject('baseUrl')}${url}`, {
-    headers: { Origin: inject('baseUrl') },
-    ...(data === undefined ? {} : { data }),
-  });
-  if (!res.ok())
-    throw new Error(`${method.toUpperCase()} ${url}: ${res.status()} ${await res.text()}`);
-  return (await res.json()) as T;
-}
 
 async function signIn(page: Page, login: string) {
   await page.goto(inject('baseUrl'));
