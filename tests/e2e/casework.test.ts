@@ -167,6 +167,16 @@ describe('casework journey (pharmacist, vancomycin)', () => {
       .getByRole('link', { name: 'Regimen explorer' })
       .click();
     await page.getByRole('heading', { name: 'Candidate regimens' }).waitFor();
+    // CrCl about 70 mL/min: the suggestion leads the table and is an every-12 or every-24 h regimen,
+    // the usual practice for vancomycin; a long interval further down says why it is unusual.
+    const candidates = page.locator('table', {
+      has: page.getByRole('columnheader', { name: 'AUC24' }),
+    });
+    const firstRow = candidates.locator('tbody tr').first();
+    await firstRow.waitFor({ timeout: 30_000 });
+    const first = (await firstRow.textContent()) ?? '';
+    expect(first).toMatch(/suggested/);
+    expect(first).toMatch(/every (12|24) h/);
     const auc = page.getByTestId('what-if-auc24');
     await auc.waitFor({ timeout: 30_000 });
     const before = await auc.textContent();

@@ -263,6 +263,29 @@ describe('POST /api/courses/:id/regimens', () => {
     expect(res.body.suggestion.exposure.auc24).toBeGreaterThanOrEqual(400);
     expect(res.body.suggestion.exposure.auc24).toBeLessThanOrEqual(600);
     expect(res.body.suggestion.doseMg % 250).toBe(0);
+    // The drug's usual practice (library practical settings, common practice): every 12 or 24 h, ≤ 2000 mg.
+    expect(res.body.suggestion.usualPractice).toBe(true);
+    expect([12, 24]).toContain(res.body.suggestion.intervalH);
+    expect(res.body.suggestion.doseMg).toBeLessThanOrEqual(2000);
+    for (const r of res.body.regimens as { usualPractice: boolean; practicalityNotes: string[] }[])
+      expect(r.usualPractice).toBe(r.practicalityNotes.length === 0);
+  });
+
+  it('when the pharmacist names the intervals, then none of them is marked unusual', async () => {
+    // Arrange
+    const { course } = await vancomycinCase();
+    // Act
+    const res = await pharmacist
+      .post(`/api/courses/${course.id}/regimens`)
+      .send({ parameters: 'population', intervalsH: [36, 48] });
+    // Assert
+    expect(res.status).toBe(200);
+    const regimens = res.body.regimens as { intervalH: number; practicalityNotes: string[] }[];
+    expect(regimens.length).toBeGreaterThan(0);
+    for (const r of regimens) {
+      expect([36, 48]).toContain(r.intervalH);
+      expect(r.practicalityNotes.join(' ')).not.toMatch(/usual intervals/);
+    }
   });
 });
 

@@ -155,6 +155,10 @@ export const regimenResultSchema = z.object({
   loadingDoseMg: z.number().nullable(),
   exposure: exposureSchema,
   meetsTarget: z.boolean(),
+  /** Within the drug's usual practice (preferred intervals, usual single-dose maximum)? */
+  usualPractice: z.boolean(),
+  /** Why not, when not: shown beside the regimen. */
+  practicalityNotes: z.array(z.string()),
 });
 export const regimenSearchResponseSchema = engineMetaSchema.extend({
   target: targetSchema,

@@ -87,7 +87,13 @@ describe('library/validate-entry', () => {
         V1: { typical: -3, unit: 'L', source: '', fromMemory: 'no' },
       },
       residualError: { model: 'combined', proportional: 0.1, source: 'x', fromMemory: false },
-      practical: { ...vancomycinGoti2018.practical, siFactor: 0 },
+      practical: {
+        ...vancomycinGoti2018.practical,
+        siFactor: 0,
+        // 6 h is not among the usual intervals, so it cannot be a preferred one.
+        preferredIntervalsH: [6, 12],
+        usualMaxSingleDoseMg: 0,
+      },
     };
     const fields = validateDrugModel(bad).problems.map((p) => p.field);
     expect(fields).toEqual(
@@ -100,6 +106,8 @@ describe('library/validate-entry', () => {
         'parameters.V1.fromMemory',
         'residualError.additive',
         'practical.siFactor',
+        'practical.preferredIntervalsH',
+        'practical.usualMaxSingleDoseMg',
       ]),
     );
     expect(validateDrugModel(null).ok).toBe(false);

@@ -1,5 +1,7 @@
 import { describe, expect, it } from 'vitest';
-import { findRegimens, regimenPresets } from '../regimen/finder';
+import { findRegimens, practicalityOf, regimenPresets } from '../regimen/finder';
+import { individualParameters } from '../library/individual';
+import { vancomycinGoti2018 } from '../library/drug-models';
 import { targetDistance, targetsMet } from '../regimen/targets';
 import { simulate } from '../simulate';
 import type { Dose, ModelStructure } from '../types';
@@ -76,6 +78,87 @@ describe('regimen/finder findRegimens', () => {
       expect(Math.floor(met[i]!.distance / 0.1)).toBeGreaterThanOrEqual(
         Math.floor(met[i - 1]!.distance / 0.1),
       );
+  });
+
+  describe('usual practice ranks before unusual intervals and dose sizes (vancomycin preset)', () => {
+    // Typical adult, 80 kg, not on haemodialysis: Goti 2018 model of the library at several CrCl.
+    const goti = (crcl: number) =>
+      individualParameters(vancomycinGoti2018, { CRCL: crcl, WT: 80, HD: 0 }).parameters;
+    const search = (crcl: number) =>
+      findRegimens({
+        model: twoCmt,
+        parameters: goti(crcl),
+        target,
+        options: { ...regimenPresets.vancomycin, maxCandidates: 200 },
+      });
+
+    it.each([54, 90, 120])(
+      'CrCl %i mL/min: the first candidate is every 12 or 24 h, ≤ 2000 mg, in range',
+      (crcl) => {
+        const r = search(crcl);
+        const best = r.candidates[0]!;
+        expect(best.allTargetsMet).toBe(true);
+        expect([12, 24]).toContain(best.interval);
+        expect(best.amount).toBeLessThanOrEqual(2000);
+        expect(best.usualPractice).toBe(true);
+        expect(best.practicalityNotes).toEqual([]);
+        // Among regimens in range, every usual one comes before any unusual one.
+        const met = r.candidates.filter((c) => c.allTargetsMet);
+        const firstUnusual = met.findIndex((c) => !c.usualPractice);
+        expect(firstUnusual).toBeGreaterThan(0);
+        expect(met.slice(firstUnusual).every((c) => !c.usualPractice)).toBe(true);
+        // Before this rule the CrCl 54 and 90 searches put an every-36 h regimen first.
+        const unusual = met[firstUnusual]!;
+        expect(unusual.practicalityNotes.length).toBeGreaterThan(0);
+      },
+    );
+
+    it('poor renal function (CrCl 10): no usual regimen meets the target, so a long interval leads, with its reason', () => {
+      const r = search(10);
+      const best = r.candidates[0]!;
+      expect(best.allTargetsMet).toBe(true);
+      expect(best.interval).toBeGreaterThan(24);
+      expect(best.usualPractice).toBe(false);
+      expect(best.practicalityNotes.join(' ')).toMatch(
+        /outside the usual intervals \(12 h, 24 h\)/,
+      );
+      // The smallest usual regimen (500 mg every 24 h) over-shoots: AUC24 = dose/CL above 600.
+      expect(r.candidates.some((c) => c.usualPractice && c.allTargetsMet)).toBe(false);
+    });
+
+    it('practicalityOf names each reason and ignores continuous infusions', () => {
+      const o = { preferredIntervals: [12, 24], usualMaxSingleDose: 2000 };
+      expect(
+        practicalityOf({ amount: 2500, interval: 36, regimenKind: 'intermittent-infusion' }, o)
+          .practicalityNotes,
+      ).toEqual([
+        'Every 36 h is outside the usual intervals (12 h, 24 h).',
+        'A single dose of 2500 mg is above the usual maintenance maximum of 2000 mg.',
+      ]);
+      expect(
+        practicalityOf({ amount: 1000, interval: 12, regimenKind: 'intermittent-infusion' }, o),
+      ).toEqual({ usualPractice: true, practicalityNotes: [] });
+      expect(
+        practicalityOf({ amount: 3000, interval: 24, regimenKind: 'continuous-infusion' }, o)
+          .usualPractice,
+      ).toBe(true);
+      // No preference configured: everything is usual.
+      expect(
+        practicalityOf(
+          { amount: 3000, interval: 48, regimenKind: 'intermittent-infusion' },
+          { preferredIntervals: [], usualMaxSingleDose: 0 },
+        ).usualPractice,
+      ).toBe(true);
+    });
+
+    it('refuses malformed preferences with the field named', () => {
+      expect(() =>
+        findRegimens({ model: twoCmt, parameters, target, options: { preferredIntervals: [0] } }),
+      ).toThrow(/options\.preferredIntervals/);
+      expect(() =>
+        findRegimens({ model: twoCmt, parameters, target, options: { usualMaxSingleDose: -1 } }),
+      ).toThrow(/options\.usualMaxSingleDose/);
+    });
   });
 
   it('adds a capped loading dose and reports the first-day AUC', () => {

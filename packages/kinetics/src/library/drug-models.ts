@@ -116,6 +116,8 @@ export const vancomycinGoti2018: DrugModelEntry = {
     doseRoundingMg: 250,
     maxInfusionRateMgPerH: 1000,
     usualIntervalsH: [8, 12, 24, 36, 48],
+    preferredIntervalsH: [12, 24],
+    usualMaxSingleDoseMg: 2000,
     defaultInfusionH: 1,
     assayUnit: 'mg/L',
     siFactor: 0.69,
@@ -129,6 +131,7 @@ export const vancomycinGoti2018: DrugModelEntry = {
     },
     sources: [
       'Dose rounding to 250 mg: many hospital protocols (common practice)',
+      'Adult maintenance usually every 12 or 24 h, single maintenance doses up to 2000 mg; 8, 36 and 48 h kept for augmented or poor renal function (common practice; site-configurable)',
       `Infusion rate ≤ 1 g/h: ${RYBAK_2020}, haemodialysis summary table (site-configurable)`,
       'SI factor 0.69 µmol/L per mg/L: from molar mass ≈ 1449 g/mol (common practice)',
     ],

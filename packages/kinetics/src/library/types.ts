@@ -73,6 +73,13 @@ export interface PracticalSettings {
   readonly maxInfusionRateMgPerH: number | null;
   /** Usual dosing intervals, h. */
   readonly usualIntervalsH: readonly number[];
+  /**
+   * Intervals (h) given as a matter of course, a subset of `usualIntervalsH`: the regimen finder ranks the
+   * others after these. Absent = no preference.
+   */
+  readonly preferredIntervalsH?: readonly number[];
+  /** Largest single maintenance dose given as a matter of course, mg; larger ones rank after. */
+  readonly usualMaxSingleDoseMg?: number;
   /** Usual infusion duration, h (IV drugs). */
   readonly defaultInfusionH?: number;
   /** Unit the assay reports: mg/L. */

@@ -206,6 +206,21 @@ export function validateDrugModel(entry: unknown): EntryValidation {
     ) {
       add('practical.usualIntervalsH', 'must be a non-empty array of intervals > 0 (h)');
     }
+    if (
+      pr.preferredIntervalsH !== undefined &&
+      (!Array.isArray(pr.preferredIntervalsH) ||
+        !pr.preferredIntervalsH.every(
+          (t: unknown) =>
+            isPosNum(t) && Array.isArray(pr.usualIntervalsH) && pr.usualIntervalsH.includes(t),
+        ))
+    ) {
+      add(
+        'practical.preferredIntervalsH',
+        'must be an array of intervals (h) taken from practical.usualIntervalsH',
+      );
+    }
+    if (pr.usualMaxSingleDoseMg !== undefined && !isPosNum(pr.usualMaxSingleDoseMg))
+      add('practical.usualMaxSingleDoseMg', 'must be a finite number > 0 (mg)');
     if (pr.defaultInfusionH !== undefined && !isPosNum(pr.defaultInfusionH))
       add('practical.defaultInfusionH', 'must be > 0 (h)');
     if (pr.assayUnit !== 'mg/L') add('practical.assayUnit', 'must be "mg/L"');

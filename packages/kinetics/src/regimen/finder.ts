@@ -26,8 +26,11 @@
  * Gibaldi & Perrier ch. 3 — from memory). First maintenance dose one interval after the loading dose starts.
  * Infusion time: the longer of `minInfusionDuration` and amount/`maxInfusionRate`, rounded up to
  * `durationStep`.
- * Ranking: all targets met first; then distance from the target centre (`targetDistance`) in bins of
- * `closenessResolution`; then fewer doses per day; then smaller daily dose.
+ * Ranking: all targets met first; then regimens within usual practice (`preferredIntervals`,
+ * `usualMaxSingleDose`: see `practicalityOf`) before the rest; then distance from the target centre
+ * (`targetDistance`) in bins of `closenessResolution`; then fewer doses per day; then smaller daily dose.
+ * A regimen outside usual practice is still listed, with the reason, so a long interval in poor renal
+ * function is offered when nothing usual meets the target.
  */
 import { EngineError } from '../errors';
 import type { Dose, ModelStructure, PkParameters, Route } from '../types';
@@ -83,6 +86,13 @@ export interface RegimenSearchOptions {
   readonly saltFactor: number;
   /** Michaelis-Menten steady-state simulation settings (`michaelisMentenRegimenSteadyState`). */
   readonly steadyStateSimulation: Partial<MichaelisMentenSteadyStateOptions>;
+  /**
+   * Intervals (h) a ward gives as a matter of course; the other `intervals` are still searched but ranked
+   * after these. Empty = no preference (every interval is usual).
+   */
+  readonly preferredIntervals: readonly number[];
+  /** Largest single maintenance dose given as a matter of course, mg; larger ones rank after. 0 = no limit. */
+  readonly usualMaxSingleDose: number;
 }
 
 /**
@@ -118,13 +128,19 @@ export const regimenSearchDefaultOptions: Readonly<RegimenSearchOptions> = Objec
   maxCandidates: 10,
   saltFactor: 1,
   steadyStateSimulation: Object.freeze({}),
+  preferredIntervals: Object.freeze([]),
+  usualMaxSingleDose: 0,
 });
 
 /**
  * Per-drug presets (site-configurable).
  * vancomycin: 250 mg steps and loading cap 3000 mg (common practice; 3000 mg cap in the Kidney360 summary of the
  * 2020 consensus), max daily 4500 mg (from memory: 2020 guideline, obese patients), ≤ 1000 mg/h (consensus summary).
- * aminoglycosides: 10 mg steps, 0.5 h infusions, extended intervals (common practice).
+ * Usual practice: adult maintenance every 12 or 24 h, single maintenance doses up to 2000 mg (common practice;
+ * q8h for augmented clearance and q36–48h for poor renal function are kept for when nothing usual meets the
+ * target — the minimum dose makes that happen by itself as clearance falls).
+ * aminoglycosides: 10 mg steps, 0.5 h infusions, extended intervals (common practice); no interval preference,
+ * because the trough target itself chooses the interval.
  */
 export const regimenPresets: Readonly<Record<string, Readonly<Partial<RegimenSearchOptions>>>> =
   Object.freeze({
@@ -136,6 +152,8 @@ export const regimenPresets: Readonly<Record<string, Readonly<Partial<RegimenSea
       maxInfusionRate: 1000,
       minInfusionDuration: 1,
       peakDelay: 1,
+      preferredIntervals: Object.freeze([12, 24]),
+      usualMaxSingleDose: 2000,
     }),
     gentamicin: Object.freeze({
       amountStep: 10,
@@ -195,6 +213,10 @@ export interface RegimenCandidate {
   readonly met: Record<string, boolean>;
   readonly allTargetsMet: boolean;
   readonly distance: number;
+  /** Within usual practice (preferred interval, single dose within the usual maximum)? */
+  readonly usualPractice: boolean;
+  /** Why not, in words a pharmacist reads (empty when usual). */
+  readonly practicalityNotes: string[];
   /** The dose list of the first 48 h as given (salt form), for display. */
   readonly schedule: Dose[];
   readonly regimenKind: RegimenKind;
@@ -307,9 +329,36 @@ function schedule48(
   return out;
 }
 
+/**
+ * Whether a regimen is what a ward gives as a matter of course (options `preferredIntervals`,
+ * `usualMaxSingleDose`), with the reasons when not. Continuous infusions have no interval to judge.
+ */
+export function practicalityOf(
+  c: Pick<RegimenCandidate, 'amount' | 'interval' | 'regimenKind'>,
+  o: Pick<RegimenSearchOptions, 'preferredIntervals' | 'usualMaxSingleDose'>,
+): { usualPractice: boolean; practicalityNotes: string[] } {
+  const notes: string[] = [];
+  if (c.regimenKind !== 'continuous-infusion') {
+    if (o.preferredIntervals.length > 0 && !o.preferredIntervals.includes(c.interval)) {
+      notes.push(
+        `Every ${c.interval} h is outside the usual intervals (${o.preferredIntervals.map((t) => `${t} h`).join(', ')}).`,
+      );
+    }
+    if (o.usualMaxSingleDose > 0 && c.amount > o.usualMaxSingleDose) {
+      notes.push(
+        `A single dose of ${c.amount} mg is above the usual maintenance maximum of ${o.usualMaxSingleDose} mg.`,
+      );
+    }
+  }
+  return { usualPractice: notes.length === 0, practicalityNotes: notes };
+}
+
 function pushCandidate(
   s: Search,
-  c: Omit<RegimenCandidate, 'met' | 'allTargetsMet' | 'distance'>,
+  c: Omit<
+    RegimenCandidate,
+    'met' | 'allTargetsMet' | 'distance' | 'usualPractice' | 'practicalityNotes'
+  >,
 ): void {
   const met = targetsMet(c.steadyState, s.input.target);
   s.all.push({
@@ -317,6 +366,7 @@ function pushCandidate(
     met: met.each,
     allTargetsMet: met.all,
     distance: targetDistance(c.steadyState, s.input.target),
+    ...practicalityOf(c, s.o),
   });
 }
 
@@ -673,6 +723,22 @@ export function findRegimens(input: RegimenSearchInput): RegimenSearchResult {
       'options.intervals',
     );
   }
+  if (
+    !Array.isArray(o.preferredIntervals) ||
+    o.preferredIntervals.some((t) => !(Number.isFinite(t) && t > 0))
+  ) {
+    throw new EngineError(
+      'invalid-input',
+      `${fn}: options.preferredIntervals must be positive hours (empty for no preference)`,
+      'options.preferredIntervals',
+    );
+  }
+  if (!(Number.isFinite(o.usualMaxSingleDose) && o.usualMaxSingleDose >= 0))
+    throw new EngineError(
+      'invalid-input',
+      `${fn}: options.usualMaxSingleDose must be ≥ 0 mg (0 for no limit)`,
+      'options.usualMaxSingleDose',
+    );
   const kind = input.regimenKind ?? 'intermittent-infusion';
   if (!KINDS.includes(kind))
     throw new EngineError(
@@ -712,6 +778,7 @@ export function findRegimens(input: RegimenSearchInput): RegimenSearchResult {
   all.sort(
     (a, b) =>
       Number(b.allTargetsMet) - Number(a.allTargetsMet) ||
+      Number(b.usualPractice) - Number(a.usualPractice) ||
       bin(a.distance) - bin(b.distance) ||
       a.dosesPerDay - b.dosesPerDay ||
       a.dailyDose - b.dailyDose ||

@@ -465,6 +465,8 @@ function toRegimenResult(r: RegimenCandidate) {
       auc24: r.steadyState.auc24,
     },
     meetsTarget: r.allTargetsMet,
+    usualPractice: r.usualPractice,
+    practicalityNotes: r.practicalityNotes,
   };
 }
 
@@ -508,6 +510,14 @@ export async function searchRegimens(
         ...(practical
           ? { amountStep: practical.doseRoundingMg, intervals: practical.usualIntervalsH }
           : {}),
+        ...(practical?.preferredIntervalsH
+          ? { preferredIntervals: practical.preferredIntervalsH }
+          : {}),
+        ...(practical?.usualMaxSingleDoseMg
+          ? { usualMaxSingleDose: practical.usualMaxSingleDoseMg }
+          : {}),
+        // A pharmacist who names the intervals has chosen them: no preference among them.
+        ...(req.intervalsH ? { preferredIntervals: [] } : {}),
         ...(practical?.maxInfusionRateMgPerH
           ? { maxInfusionRate: practical.maxInfusionRateMgPerH }
           : {}),

@@ -186,6 +186,16 @@ function Practical({ d }: { d: ModelDefinition }) {
         </dd>
         <dt className="text-slate-600">Usual intervals</dt>
         <dd>{p.usualIntervalsH.map((h) => `${h} h`).join(', ')}</dd>
+        {p.preferredIntervalsH !== undefined && (
+          <>
+            <dt className="text-slate-600">Ranked first</dt>
+            <dd>
+              every {p.preferredIntervalsH.map((h) => `${h} h`).join(' or ')}
+              {p.usualMaxSingleDoseMg !== undefined &&
+                `, single doses up to ${p.usualMaxSingleDoseMg} mg`}
+            </dd>
+          </>
+        )}
         {p.defaultInfusionH !== undefined && (
           <>
             <dt className="text-slate-600">Usual infusion time</dt>

@@ -189,6 +189,8 @@ export function RegimenExplorer() {
           doses rounded to {settings.doseRoundingMg} mg
           {settings.maxInfusionRateMgPerH !== null &&
             ` · infusion no faster than ${formatNumber(settings.maxInfusionRateMgPerH)} mg/h`}
+          {' · '}ranked by target met, then the drug’s usual intervals and dose sizes, then
+          closeness to the target centre
         </p>
         {!practical.found && model.data && (
           <Warnings
@@ -241,9 +243,14 @@ export function RegimenExplorer() {
                         {echoRegimen(r)}
                         {isSuggestion && (
                           <div className="text-xs font-semibold text-tide-800">
-                            closest to target
+                            {r.usualPractice ? 'suggested' : 'closest to target'}
                           </div>
                         )}
+                        {r.practicalityNotes.map((note) => (
+                          <div key={note} className="text-xs text-amber-800">
+                            {note}
+                          </div>
+                        ))}
                       </td>
                       <td>{r.loadingDoseMg ? echoDoseMg(r.loadingDoseMg) : '—'}</td>
                       <td>{formatConcentration(r.exposure.peakMgL)}</td>
