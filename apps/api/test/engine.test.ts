@@ -328,6 +328,56 @@ describe('POST /api/courses/:id/regimens (phenytoin)', () => {
       true,
     );
     expect(res.body.warnings.map((w: { code: string }) => w.code)).toContain('salt-factor');
+    // Asked for loading doses: oral phenytoin loading comes in portions and allows for the drug already
+    // given (LD = V·(Cdesired − C0)/(S·F): Winter ME, Basic Clinical Pharmacokinetics — from memory).
+    const loaded = await pharmacist
+      .post(`/api/courses/${c.id}/regimens`)
+      .send({ parameters: 'population', loadingDose: true });
+    expect(loaded.status).toBe(200);
+    const withLoading = (
+      loaded.body.regimens as { loadingDoseMg: number | null; loadingPortions: number | null }[]
+    ).filter((r) => r.loadingDoseMg !== null);
+    expect(withLoading.length).toBeGreaterThan(0);
+    for (const r of withLoading) {
+      expect(r.loadingDoseMg).toBeLessThanOrEqual(2000);
+      expect(r.loadingPortions).toBe(Math.ceil((r.loadingDoseMg as number) / 400));
+    }
+    expect(loaded.body.warnings.map((w: { code: string }) => w.code)).toContain(
+      'loading-dose-allows-for-drug-on-board',
+    );
+  });
+});
+
+describe('POST /api/courses/:id/regimens (loading doses)', () => {
+  it('when loading doses are asked for a patient already on vancomycin, then each is capped and the result warns about drug on board', async () => {
+    // Arrange
+    const { course } = await vancomycinCase();
+    // Act
+    const res = await pharmacist
+      .post(`/api/courses/${course.id}/regimens`)
+      .send({ parameters: 'map', loadingDose: true });
+    // Assert
+    expect(res.status).toBe(200);
+    const regimens = res.body.regimens as { loadingDoseMg: number | null; doseMg: number }[];
+    expect(regimens.some((r) => r.loadingDoseMg !== null)).toBe(true);
+    for (const r of regimens)
+      if (r.loadingDoseMg !== null) {
+        // Cap 3000 mg: Kidney360 summary of the 2020 vancomycin consensus (pk-reference).
+        expect(r.loadingDoseMg).toBeLessThanOrEqual(3000);
+        expect(r.loadingDoseMg).toBeGreaterThan(r.doseMg);
+      }
+    expect(res.body.warnings.map((w: { code: string }) => w.code)).toContain(
+      'loading-with-drug-on-board',
+    );
+  });
+
+  it('when loadingDose is not a boolean, then 400 names the field and nothing is computed', async () => {
+    const { course } = await vancomycinCase();
+    const res = await pharmacist
+      .post(`/api/courses/${course.id}/regimens`)
+      .send({ parameters: 'map', loadingDose: 'yes' });
+    expect(res.status).toBe(400);
+    expect(JSON.stringify(res.body)).toMatch(/loadingDose/);
   });
 });
 

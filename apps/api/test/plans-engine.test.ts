@@ -67,3 +67,91 @@ describe('POST /api/courses/:courseId/plans (engine path)', () => {
     });
   }
 });
+
+describe('POST /api/courses/:courseId/plans (oral phenytoin loading)', () => {
+  it('when an oral phenytoin plan has a loading dose, then it lists the portions 2 h apart and its exposure equals the regimen screen', async () => {
+    // Arrange: an invented adult on oral phenytoin 300 mg daily for three days, through the API.
+    const patient = await pharmacist.post('/api/patients').send({
+      mrn: `KB-${Math.random().toString(16).slice(2, 12).toUpperCase()}`,
+      givenName: 'Perrin',
+      familyName: 'Alcott',
+      sex: 'male',
+      birthDate: '1969-11-30',
+      ward: '6 West',
+    });
+    expect(patient.status).toBe(201);
+    for (const c of [
+      { kind: 'weight', value: 70, unit: 'kg', weightSource: 'measured' },
+      { kind: 'serum-creatinine', value: 80, unit: 'umol/L' },
+    ])
+      expect(
+        (
+          await pharmacist
+            .post(`/api/patients/${patient.body.id}/covariates`)
+            .send({ ...c, observedAt: hoursFromNow(-80) })
+        ).status,
+      ).toBe(201);
+    const course = await pharmacist.post(`/api/patients/${patient.body.id}/courses`).send({
+      drug: 'phenytoin',
+      modelId: 'phenytoin-adult-grasela-1983',
+      indication: 'Seizure prophylaxis',
+      micMgL: null,
+      target: { metric: 'trough', low: 10, high: 20 },
+    });
+    expect(course.status, JSON.stringify(course.body)).toBe(201);
+    for (const h of [72, 48, 24])
+      expect(
+        (
+          await pharmacist
+            .post(`/api/courses/${course.body.id}/doses`)
+            .send({ amount: 300, unit: 'mg', route: 'oral', startAt: hoursFromNow(-h) })
+        ).status,
+      ).toBe(201);
+    const startAt = hoursFromNow(1);
+    const regimen = {
+      doseMg: 300,
+      intervalH: 24,
+      infusionH: 0,
+      route: 'oral',
+      count: 4,
+      loadingDoseMg: 1000,
+      startAt,
+    };
+    const screen = await pharmacist
+      .post(`/api/courses/${course.body.id}/simulate`)
+      .send({ parameters: 'population', regimen, horizonH: 24, stepH: 0.25 });
+    expect(screen.status, JSON.stringify(screen.body)).toBe(200);
+    // Oral doses are absorbed with the model's F (0.859 here), not simulated as IV boluses: the same
+    // regimen by IV bolus gives a higher AUC24 (and more than proportionally so: capacity-limited).
+    const asBolus = await pharmacist.post(`/api/courses/${course.body.id}/simulate`).send({
+      parameters: 'population',
+      regimen: { ...regimen, route: 'iv-bolus' },
+      horizonH: 24,
+      stepH: 0.25,
+    });
+    expect(asBolus.body.exposure.auc24).toBeGreaterThan(screen.body.exposure.auc24 / 0.859);
+    // Act
+    const created = await pharmacist
+      .post(`/api/courses/${course.body.id}/plans`)
+      .send({ ...regimen, rationale: 'Load, then maintain at the steady state.' });
+    // Assert: 400 + 400 + 200 mg at +0, +2, +4 h (common practice: oral phenytoin loading in parts),
+    // maintenance 24 h after the first part.
+    expect(created.status, JSON.stringify(created.body)).toBe(201);
+    const doses = created.body.regimen.doses as {
+      label: string;
+      doseMg: number;
+      startAt: string;
+    }[];
+    const h = (d: { startAt: string }) => (Date.parse(d.startAt) - Date.parse(startAt)) / 3_600_000;
+    expect(doses.slice(0, 4).map((d) => [d.label, d.doseMg, Math.round(h(d) * 100) / 100])).toEqual(
+      [
+        ['loading dose, part 1 of 3', 400, 0],
+        ['loading dose, part 2 of 3', 400, 2],
+        ['loading dose, part 3 of 3', 200, 4],
+        ['dose 1', 300, 24],
+      ],
+    );
+    close(created.body.predicted.troughMgL, screen.body.exposure.troughMgL);
+    close(created.body.predicted.auc24, screen.body.exposure.auc24);
+  });
+});

@@ -143,6 +143,8 @@ export const regimenSearchRequestSchema = z
       .optional(),
     startAt: isoDateTimeSchema.optional(),
     startHour: relativeHourSchema.optional(),
+    /** Propose a loading dose with each regimen (capped per drug); default: the drug's own setting. */
+    loadingDose: z.boolean().optional(),
   })
   .strict();
 export type RegimenSearchRequest = z.infer<typeof regimenSearchRequestSchema>;
@@ -153,6 +155,8 @@ export const regimenResultSchema = z.object({
   intervalH: z.number(),
   infusionH: z.number(),
   loadingDoseMg: z.number().nullable(),
+  /** Oral loading given in this many portions, 2 h apart (phenytoin); null for a single dose. */
+  loadingPortions: z.number().int().nullable(),
   exposure: exposureSchema,
   meetsTarget: z.boolean(),
   /** Within the drug's usual practice (preferred intervals, usual single-dose maximum)? */

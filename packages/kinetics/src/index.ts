@@ -185,6 +185,13 @@ export {
   type LibraryWarning,
 } from './library/individual';
 export { generateRegimen, type RegimenSpec } from './dosing/regimen';
+export {
+  ORAL_LOADING_PORTION_MG,
+  ORAL_LOADING_SPACING_H,
+  maintenanceAfterPortions,
+  oralLoadingPortions,
+  type LoadingPortion,
+} from './dosing/oral-loading';
 export { validateDoses } from './dosing/validate-doses';
 export {
   halfLives,

@@ -156,7 +156,11 @@ export interface PlanReportModel {
     doseMg: number;
     intervalH: number;
     infusionH: number;
+    /** How it is given; absent = IV infusion (older report models). */
+    route?: 'iv-infusion' | 'iv-bolus' | 'oral' | 'im';
     loadingDoseMg?: number | null;
+    /** Oral loading dose given in this many portions (phenytoin); absent or 1 = one dose. */
+    loadingPortions?: number | null;
     /** Predicted at steady state unless the note says otherwise, mg/L. */
     peak: number;
     trough: number;

@@ -572,11 +572,23 @@ class ReportWriter {
       return;
     }
     const first = m.administration[0];
+    const every = `every ${formatHours(chosen.intervalH)}`;
+    const how =
+      chosen.route === 'oral'
+        ? `by mouth ${every}`
+        : chosen.route === 'im'
+          ? `intramuscularly ${every}`
+          : chosen.route === 'iv-bolus' || chosen.infusionH === 0
+            ? `by intravenous bolus ${every}`
+            : `intravenously ${every}, each dose infused over ${formatHours(chosen.infusionH)}`;
+    const portions =
+      chosen.loadingPortions && chosen.loadingPortions > 1
+        ? ` (in ${chosen.loadingPortions} portions; see the administration times)`
+        : '';
     const line =
-      `${m.course.drug} ${formatDoseMg(chosen.doseMg)} intravenously every ${formatHours(chosen.intervalH)}, ` +
-      `each dose infused over ${formatHours(chosen.infusionH)}` +
+      `${m.course.drug} ${formatDoseMg(chosen.doseMg)} ${how}` +
       (chosen.loadingDoseMg
-        ? `, after a loading dose of ${formatDoseMg(chosen.loadingDoseMg)}`
+        ? `, after a loading dose of ${formatDoseMg(chosen.loadingDoseMg)}${portions}`
         : '') +
       (first
         ? `. First dose: ${formatClock(first.at, m.timeBase)} on ${formatDay(first.at, m.timeBase)}.`
@@ -985,7 +997,7 @@ class ReportWriter {
       m.regimens.map((r) => [
         formatDoseMg(r.doseMg),
         formatHours(r.intervalH),
-        formatHours(r.infusionH),
+        r.route === 'oral' ? 'by mouth' : r.route === 'im' ? 'IM' : formatHours(r.infusionH),
         r.loadingDoseMg ? formatDoseMg(r.loadingDoseMg) : '–',
         formatNumber(r.peak, 1),
         formatNumber(r.trough, 1),
@@ -1016,7 +1028,13 @@ class ReportWriter {
       ]),
     );
     this.doc.moveDown(0.3);
-    this.paragraph('Record the actual start and stop time of every infusion.', { color: MUTED });
+    const route = m.regimens.find((r) => r.chosen)?.route;
+    this.paragraph(
+      route === 'oral' || route === 'im'
+        ? 'Record the actual time every dose is given.'
+        : 'Record the actual start and stop time of every infusion.',
+      { color: MUTED },
+    );
   }
 
   private sampling(): void {

@@ -40,8 +40,20 @@ export function echoHours(h: number): string {
 }
 
 /** "1.5 g (1500 mg) over 1.5 h every 12 h" — a regimen as a nurse would read it. */
-export function echoRegimen(r: { doseMg: number; infusionH: number; intervalH: number }): string {
-  const over = r.infusionH > 0 ? ` over ${echoHours(r.infusionH)}` : ' as a bolus';
+export function echoRegimen(r: {
+  doseMg: number;
+  infusionH: number;
+  intervalH: number;
+  route?: 'iv-infusion' | 'iv-bolus' | 'oral' | 'im';
+}): string {
+  const over =
+    r.route === 'oral'
+      ? ' by mouth'
+      : r.route === 'im'
+        ? ' intramuscularly'
+        : r.infusionH > 0
+          ? ` over ${echoHours(r.infusionH)}`
+          : ' as a bolus';
   return `${echoDoseMg(r.doseMg)}${over} every ${formatNumber(r.intervalH, 2)} h`;
 }
 

@@ -201,4 +201,95 @@ describe('regimen/finder findRegimens({ model: Michaelis-Menten, regimenKind: "o
       /Michaelis-Menten/,
     );
   });
+
+  describe("loading dose to the regimen's own steady state", () => {
+    // LD = V·(Cdesired − C0)/(S·F), Cdesired = the steady-state peak: Winter ME, Basic Clinical Pharmacokinetics, phenytoin chapter; Bauer LA,
+    // Applied Clinical Pharmacokinetics, ch. 10 (both from memory).
+    const search = (
+      regimenKind: 'intermittent-infusion' | 'oral',
+      extra: Record<string, unknown> = {},
+    ) =>
+      findRegimens({
+        model: MM1,
+        parameters: patient,
+        target,
+        regimenKind,
+        options: {
+          ...regimenPresets.phenytoin,
+          loadingDose: { enabled: true, cap: 2000 },
+          maxCandidates: 100,
+          ...extra,
+        },
+      });
+
+    it('IV: LD = V·Cpeak,ss/S rounded to 25 mg, infused no faster than 50 mg/min, and the first week stays in range', () => {
+      const r = search('intermittent-infusion');
+      const best = r.candidates[0]!;
+      const ld = best.loadingDose!;
+      expect(Math.abs(ld.amount - (patient.V1 * best.steadyState.peak) / S)).toBeLessThanOrEqual(
+        12.5 + 1e-9,
+      );
+      expect(ld.amount % 25).toBe(0);
+      expect(ld.amount / ld.infusionDuration).toBeLessThanOrEqual(3000 + 1e-9);
+      expect(best.firstMaintenanceTime).toBe(best.interval);
+      // Independent check: the first week of the schedule through RK4 `simulate` (loading dose, then the
+      // maintenance doses every τ): every hour from the end of the loading infusion stays inside 10–20 mg/L,
+      // while the same maintenance doses without it start below 10 mg/L.
+      const week: Dose[] = [
+        best.activeSchedule[0]!,
+        ...Array.from({ length: Math.ceil(168 / best.interval) }, (_, i) => ({
+          ...best.activeSchedule[1]!,
+          time: best.firstMaintenanceTime + i * best.interval,
+        })),
+      ];
+      const hours = Array.from({ length: 160 }, (_, i) => ld.infusionDuration + 1 + i);
+      const loaded = simulate({ model: MM1, parameters: patient, doses: week, outputTimes: hours });
+      expect(Math.min(...loaded.concentrations)).toBeGreaterThanOrEqual(10);
+      expect(Math.max(...loaded.concentrations)).toBeLessThanOrEqual(20);
+      const unloaded = simulate({
+        model: MM1,
+        parameters: patient,
+        doses: week.slice(1),
+        outputTimes: [best.firstMaintenanceTime + best.interval],
+      });
+      expect(unloaded.concentrations[0]!).toBeLessThan(10);
+    });
+
+    it('oral: the loading dose is split into portions of at most 400 mg every 2 h and uses F', () => {
+      const best = search('oral').candidates[0]!;
+      const ld = best.loadingDose!;
+      expect(
+        Math.abs(ld.amount - (patient.V1 * best.steadyState.peak) / (S * patient.F!)),
+      ).toBeLessThanOrEqual(12.5 + 1e-9);
+      const portions = best.schedule.filter((d) => d.time < best.firstMaintenanceTime);
+      expect(portions.length).toBe(ld.portions);
+      expect(portions.every((d) => d.amount <= 400)).toBe(true);
+      expect(portions.reduce((t, d) => t + d.amount, 0)).toBe(ld.amount);
+      expect(portions.map((d) => d.time)).toEqual(portions.map((_, i) => i * 2));
+    });
+
+    it('subtracts the concentration already present, and gives none when it reaches Css', () => {
+      const none = search('intermittent-infusion').candidates[0]!;
+      const part = search('intermittent-infusion', { currentConcentration: 5 }).candidates.find(
+        (c) => c.amount === none.amount && c.interval === none.interval,
+      )!;
+      expect(
+        Math.abs(none.loadingDose!.amount - part.loadingDose!.amount - (patient.V1 * 5) / S),
+      ).toBeLessThanOrEqual(25 + 1e-9);
+      const full = search('intermittent-infusion', { currentConcentration: 40 });
+      const inRange = full.candidates.filter((c) => c.allTargetsMet);
+      expect(inRange.length).toBeGreaterThan(0);
+      expect(inRange.every((c) => c.loadingDose === undefined)).toBe(true);
+      expect(inRange[0]!.warnings.map((w) => w.code)).toContain('no-loading-dose-needed');
+    });
+
+    it('caps the loading dose and says so', () => {
+      const r = search('intermittent-infusion', { loadingDose: { enabled: true, cap: 500 } });
+      const loaded = r.candidates.filter((c) => c.loadingDose);
+      for (const c of loaded) expect(c.loadingDose!.amount).toBeLessThanOrEqual(500);
+      expect(
+        r.candidates.some((c) => c.warnings.some((w) => w.code === 'loading-dose-capped')),
+      ).toBe(true);
+    });
+  });
 });

@@ -390,6 +390,7 @@ export const phenytoinGrasela1983: DrugModelEntry = {
     assayUnit: 'mg/L',
     siFactor: 3.964,
     saltFactor: 0.92,
+    oralLoadingPortionMg: 400,
     target: {
       kind: 'concentration',
       low: 10,
@@ -403,6 +404,7 @@ export const phenytoinGrasela1983: DrugModelEntry = {
       'IV rate ≤ 50 mg/min in adults (product label, from memory)',
       'Dose rounding to 50 mg: common practice (small steps because kinetics are nonlinear)',
       'SI factor 3.964 µmol/L per mg/L (molar mass 252.3 g/mol)',
+      'Oral loading doses given in portions of ≤ 400 mg every 2 h: common practice (large single oral doses absorb slowly; from memory, Winter/Bauer phenytoin chapters)',
     ],
   },
   references: [GRASELA_1983, PHENYTOIN_TDM_2016],

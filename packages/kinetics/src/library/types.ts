@@ -80,6 +80,8 @@ export interface PracticalSettings {
   readonly preferredIntervalsH?: readonly number[];
   /** Largest single maintenance dose given as a matter of course, mg; larger ones rank after. */
   readonly usualMaxSingleDoseMg?: number;
+  /** Oral loading doses are given in portions of at most this, mg, 2 h apart (phenytoin). */
+  readonly oralLoadingPortionMg?: number;
   /** Usual infusion duration, h (IV drugs). */
   readonly defaultInfusionH?: number;
   /** Unit the assay reports: mg/L. */

@@ -219,6 +219,8 @@ export function validateDrugModel(entry: unknown): EntryValidation {
         'must be an array of intervals (h) taken from practical.usualIntervalsH',
       );
     }
+    if (pr.oralLoadingPortionMg !== undefined && !isPosNum(pr.oralLoadingPortionMg))
+      add('practical.oralLoadingPortionMg', 'must be a finite number > 0 (mg)');
     if (pr.usualMaxSingleDoseMg !== undefined && !isPosNum(pr.usualMaxSingleDoseMg))
       add('practical.usualMaxSingleDoseMg', 'must be a finite number > 0 (mg)');
     if (pr.defaultInfusionH !== undefined && !isPosNum(pr.defaultInfusionH))

@@ -33,6 +33,12 @@
  * function is offered when nothing usual meets the target.
  */
 import { EngineError } from '../errors';
+import {
+  ORAL_LOADING_PORTION_MG,
+  ORAL_LOADING_SPACING_H,
+  maintenanceAfterPortions,
+  oralLoadingPortions,
+} from '../dosing/oral-loading';
 import type { Dose, ModelStructure, PkParameters, Route } from '../types';
 import type { EngineWarning } from '../estimation/types';
 import {
@@ -93,6 +99,17 @@ export interface RegimenSearchOptions {
   readonly preferredIntervals: readonly number[];
   /** Largest single maintenance dose given as a matter of course, mg; larger ones rank after. 0 = no limit. */
   readonly usualMaxSingleDose: number;
+  /**
+   * Concentration already present when the regimen starts, mg/L (predicted from the doses given). A
+   * Michaelis-Menten loading dose subtracts it; a linear one does not, and the result warns instead.
+   */
+  readonly currentConcentration: number;
+  /**
+   * Oral Michaelis-Menten loading doses are split into portions of at most this, mg, `oralLoadingSpacing` h
+   * apart (phenytoin preset 400); 0 = one dose.
+   */
+  readonly oralLoadingPortion: number;
+  readonly oralLoadingSpacing: number;
 }
 
 /**
@@ -130,6 +147,9 @@ export const regimenSearchDefaultOptions: Readonly<RegimenSearchOptions> = Objec
   steadyStateSimulation: Object.freeze({}),
   preferredIntervals: Object.freeze([]),
   usualMaxSingleDose: 0,
+  currentConcentration: 0,
+  oralLoadingPortion: 0,
+  oralLoadingSpacing: ORAL_LOADING_SPACING_H,
 });
 
 /**
@@ -169,7 +189,9 @@ export const regimenPresets: Readonly<Record<string, Readonly<Partial<RegimenSea
      * phenytoin: 25 mg steps (common practice: small steps because the kinetics are nonlinear; 25 mg is a
      * site choice here — the library's `doseRoundingMg` is 50), intervals 24/12/8 h and IV ≤ 50 mg/min
      * = 3000 mg/h (library practical settings; product label, from memory), salt factor 0.92 (pk-reference A8).
-     * Daily cap 1000 mg is a generous guard (common practice), not a clinical maximum.
+     * Daily cap 1000 mg is a generous guard (common practice), not a clinical maximum. Loading doses, when
+     * asked for, are capped at 2000 mg (common practice; site-configurable) and given orally in portions of
+     * ≤ 400 mg every 2 h (common practice: large single oral doses are absorbed slowly).
      */
     phenytoin: Object.freeze({
       amountStep: 25,
@@ -182,6 +204,8 @@ export const regimenPresets: Readonly<Record<string, Readonly<Partial<RegimenSea
       durationStep: 0.25,
       peakDelay: 0,
       saltFactor: 0.92,
+      loadingDose: Object.freeze({ enabled: false, cap: 2000 }),
+      oralLoadingPortion: ORAL_LOADING_PORTION_MG,
     }),
     /**
      * vancomycin by continuous infusion: 250 mg daily-dose steps, up to 4500 mg/day (as the intermittent
@@ -204,7 +228,14 @@ export interface RegimenCandidate {
   readonly infusionDuration: number;
   readonly dosesPerDay: number;
   readonly dailyDose: number;
-  readonly loadingDose: { readonly amount: number; readonly infusionDuration: number } | undefined;
+  readonly loadingDose:
+    | {
+        readonly amount: number;
+        readonly infusionDuration: number;
+        /** Oral loading given in this many portions (`oralLoadingPortion`, `oralLoadingSpacing`). */
+        readonly portions?: number;
+      }
+    | undefined;
   /** h, when the first maintenance dose starts. */
   readonly firstMaintenanceTime: number;
   readonly steadyState: Exposure;
@@ -558,6 +589,64 @@ function searchContinuous(s: Search, m: ExponentialModel, parameters: PkParamete
  * R = S·F·dose/τ; R ≥ Vmax refused (`no-steady-state`); otherwise Css = Km·R/(Vmax − R), t90 (A8) and the
  * RK4 steady-state peak/trough/AUC24 (`michaelisMentenRegimenSteadyState`).
  */
+/**
+ * Michaelis-Menten (phenytoin) loading dose to the candidate's own steady-state peak:
+ * LD = V·(Cdesired − C0)/(S·F) (Winter ME, Basic Clinical Pharmacokinetics, phenytoin chapter; Bauer LA, Applied
+ * Clinical Pharmacokinetics, ch. 10 — from memory), with Cdesired = the steady-state peak and
+ * C0 = `currentConcentration`. Aiming at the peak, as the linear loading dose does, puts the patient on the
+ * steady-state cycle: the decline over the first interval follows the same elimination as at steady state, so
+ * the first maintenance dose, one interval later, arrives near the steady-state trough. Rounded to
+ * `amountStep`, capped at `loadingDose.cap`; IV over amount/`maxInfusionRate`; oral in portions of
+ * ≤ `oralLoadingPortion`. None when it would not exceed one maintenance dose, or when C0 already reaches the
+ * steady state.
+ */
+function michaelisMentenLoading(
+  s: Search,
+  aim: number,
+  maintenance: number,
+  route: 'oral' | 'infusion',
+  start: number,
+  warnings: EngineWarning[],
+): { loading: NonNullable<RegimenCandidate['loadingDose']>; doses: Dose[] } | undefined {
+  const { o, S, input } = s;
+  const V = input.parameters.V1;
+  const F = route === 'oral' ? (input.parameters.F ?? 1) : 1;
+  const c0 = o.currentConcentration;
+  if (c0 >= aim) {
+    warnings.push({
+      code: 'no-loading-dose-needed',
+      message: `The concentration at the start (${c0.toFixed(1)} mg/L) already reaches this regimen's steady-state peak (${aim.toFixed(1)} mg/L): no loading dose.`,
+    });
+    return undefined;
+  }
+  const exact = (V * (aim - c0)) / (S * F);
+  let amount = Math.round(exact / o.amountStep) * o.amountStep;
+  if (amount > o.loadingDose.cap) {
+    amount = Math.floor(o.loadingDose.cap / o.amountStep) * o.amountStep;
+    warnings.push({
+      code: 'loading-dose-capped',
+      message: `The loading dose to reach ${aim.toFixed(1)} mg/L would be ${Math.round(exact)} mg; it is capped at ${o.loadingDose.cap} mg, so the first days run below the steady state.`,
+    });
+  }
+  if (amount <= maintenance) return undefined;
+  if (route === 'infusion') {
+    const duration = infusionTime(amount, o);
+    return {
+      loading: { amount, infusionDuration: duration },
+      doses: [{ time: start, amount, route: 'infusion', duration }],
+    };
+  }
+  if (o.oralLoadingPortion === 0)
+    return {
+      loading: { amount, infusionDuration: 0 },
+      doses: [{ time: start, amount, route: 'oral' }],
+    };
+  const doses: Dose[] = oralLoadingPortions(amount, o.oralLoadingPortion, o.oralLoadingSpacing).map(
+    (p) => ({ time: start + p.offsetH, amount: p.amount, route: 'oral' }),
+  );
+  return { loading: { amount, infusionDuration: 0, portions: doses.length }, doses };
+}
+
 function searchMichaelisMenten(s: Search): void {
   const { o, S, input } = s;
   const continuous = s.kind === 'continuous-infusion';
@@ -611,7 +700,21 @@ function searchMichaelisMenten(s: Search): void {
         route === 'oral'
           ? { time: t, amount, route: 'oral' }
           : { time: t, amount, route: 'infusion', duration: T };
-      const schedule = schedule48(start, undefined, start, tau, make);
+      const load = o.loadingDose.enabled
+        ? michaelisMentenLoading(s, r.peak, amount, route, start, warnings)
+        : undefined;
+      const firstMaintenance = load
+        ? start +
+          maintenanceAfterPortions(
+            load.doses.map((d) => ({ offsetH: d.time - start, amount: d.amount })),
+            tau,
+            o.oralLoadingSpacing,
+          )
+        : start;
+      const schedule = [
+        ...(load?.doses ?? []),
+        ...schedule48(start, undefined, firstMaintenance, tau, make),
+      ];
       const activeSchedule = scaled(schedule, S);
       // First-day AUC: no superposition for Michaelis-Menten, so an RK4 run over the first 24 h.
       const auc24FirstDay = simulate({
@@ -629,8 +732,8 @@ function searchMichaelisMenten(s: Search): void {
         infusionDuration: T,
         dosesPerDay: 24 / tau,
         dailyDose,
-        loadingDose: undefined,
-        firstMaintenanceTime: start,
+        loadingDose: load?.loading,
+        firstMaintenanceTime: firstMaintenance,
         steadyState: { auc24: r.auc24, peak: r.peak, trough: r.trough, css: r.css },
         auc24FirstDay,
         schedule,
@@ -654,13 +757,6 @@ function searchMichaelisMenten(s: Search): void {
         warnings,
       });
     }
-  }
-  if (o.loadingDose.enabled) {
-    s.warnings.push({
-      code: 'loading-dose-not-designed',
-      message:
-        'No loading dose is designed for Michaelis-Menten models; the candidates are maintenance regimens only.',
-    });
   }
   if (s.refused.length > 0) {
     s.warnings.push({
@@ -706,6 +802,24 @@ export function findRegimens(input: RegimenSearchInput): RegimenSearchResult {
         `options.${f}`,
       );
   }
+  if (!(Number.isFinite(o.currentConcentration) && o.currentConcentration >= 0))
+    throw new EngineError(
+      'invalid-input',
+      `${fn}: options.currentConcentration must be ≥ 0 mg/L`,
+      'options.currentConcentration',
+    );
+  if (!(Number.isFinite(o.oralLoadingPortion) && o.oralLoadingPortion >= 0))
+    throw new EngineError(
+      'invalid-input',
+      `${fn}: options.oralLoadingPortion must be ≥ 0 mg (0: one dose)`,
+      'options.oralLoadingPortion',
+    );
+  if (!(Number.isFinite(o.oralLoadingSpacing) && o.oralLoadingSpacing > 0))
+    throw new EngineError(
+      'invalid-input',
+      `${fn}: options.oralLoadingSpacing must be positive`,
+      'options.oralLoadingSpacing',
+    );
   if (!(o.saltFactor > 0 && o.saltFactor <= 1))
     throw new EngineError(
       'invalid-input',
@@ -784,6 +898,16 @@ export function findRegimens(input: RegimenSearchInput): RegimenSearchResult {
       a.dailyDose - b.dailyDose ||
       a.distance - b.distance,
   );
+  if (
+    o.loadingDose.enabled &&
+    o.currentConcentration > 0 &&
+    input.model?.elimination !== 'michaelis-menten'
+  ) {
+    warnings.push({
+      code: 'loading-with-drug-on-board',
+      message: `About ${o.currentConcentration.toFixed(1)} mg/L is predicted when the regimen starts: the loading doses listed assume none on board; consider a smaller one or none.`,
+    });
+  }
   const anyMet = all.some((c) => c.allTargetsMet);
   if (!anyMet) {
     warnings.push({

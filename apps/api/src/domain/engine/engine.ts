@@ -18,7 +18,10 @@ import {
   findRegimens,
   fitMap,
   populationPrediction,
+  maintenanceAfterPortions,
+  oralLoadingPortions,
   regimenPresets,
+  regimenSearchDefaultOptions,
   simulate,
   suggestSamplingTimes,
   twoLevelEstimate,
@@ -151,6 +154,20 @@ function parametersFor(
   return { parameters: fit.parameters, warnings: mapWarnings(fit) };
 }
 
+/**
+ * The drug's oral loading portion, mg (drug model practical setting; for a model version stored before
+ * the setting existed, the engine's preset for the drug), or undefined when loading doses are not split.
+ */
+export function oralLoadingPortionFor(
+  drug: string,
+  practical: { oralLoadingPortionMg?: unknown } | undefined,
+): number | undefined {
+  const own = practical?.oralLoadingPortionMg;
+  if (typeof own === 'number' && own > 0) return own;
+  const preset = regimenPresets[drug]?.oralLoadingPortion;
+  return preset && preset > 0 ? preset : undefined;
+}
+
 function regimenDoses(c: EngineCase, r: Regimen): { doses: Dose[]; start: number } {
   const last = c.doses[c.doses.length - 1];
   let start: number;
@@ -165,17 +182,25 @@ function regimenDoses(c: EngineCase, r: Regimen): { doses: Dose[]; start: number
       });
     start = hoursOf(c.referenceAt, r.startAt ?? null, r.startHour ?? null);
   } else start = last ? last.time + r.intervalH : 0;
+  // Oral and IM doses are absorbed (the engine's first-order route, with the model's F and ka) whatever
+  // their infusion time of 0 says; an IV dose with no infusion time is a bolus.
   const route =
-    r.infusionH === 0 || r.route === 'iv-bolus'
-      ? 'bolus'
-      : r.route === 'oral' || r.route === 'im'
-        ? 'oral'
+    r.route === 'oral' || r.route === 'im'
+      ? 'oral'
+      : r.infusionH === 0 || r.route === 'iv-bolus'
+        ? 'bolus'
         : 'infusion';
   const dose = (time: number, amount: number): Dose =>
     route === 'infusion' ? { time, amount, route, duration: r.infusionH } : { time, amount, route };
   const out: Dose[] = [];
   let t = start;
-  if (r.loadingDoseMg) {
+  const portionMg = oralLoadingPortionFor(c.ctx.course.drug, c.entry.practical);
+  if (r.loadingDoseMg && route === 'oral' && portionMg) {
+    // As the regimen finder and the plan give it: an oral loading dose in portions (phenytoin).
+    const portions = oralLoadingPortions(r.loadingDoseMg, portionMg);
+    for (const p of portions) out.push(dose(start + p.offsetH, p.amount));
+    t = start + maintenanceAfterPortions(portions, r.intervalH);
+  } else if (r.loadingDoseMg) {
     out.push(dose(t, r.loadingDoseMg));
     t += r.intervalH;
   }
@@ -459,6 +484,7 @@ function toRegimenResult(r: RegimenCandidate) {
     intervalH: r.interval,
     infusionH: r.infusionDuration,
     loadingDoseMg: r.loadingDose?.amount ?? null,
+    loadingPortions: r.loadingDose?.portions ?? null,
     exposure: {
       peakMgL: r.steadyState.peak,
       troughMgL: r.steadyState.trough,
@@ -497,16 +523,41 @@ export async function searchRegimens(
     req.startHour !== undefined || req.startAt !== undefined
       ? hoursOf(c.referenceAt, req.startAt ?? null, req.startHour ?? null)
       : (c.doses[c.doses.length - 1]?.time ?? 0) + 12;
+  const preset = regimenPresets[c.ctx.course.drug] ?? {};
+  const mm = c.structure.elimination === 'michaelis-menten';
+  // What is already on board when the regimen starts (from the doses given): a Michaelis-Menten loading
+  // dose subtracts it; a linear one warns.
+  let currentConcentration = 0;
+  if (req.loadingDose && c.doses.length > 0) {
+    try {
+      currentConcentration = Math.max(
+        0,
+        simulate({
+          model: c.structure,
+          parameters,
+          doses: c.doses.filter((d) => d.time < startTime),
+          outputTimes: [startTime],
+          options: { estimateError: false },
+        }).concentrations[0] ?? 0,
+      );
+    } catch (error) {
+      engineRefused(error);
+    }
+    if (mm && currentConcentration > 0)
+      extra.push({
+        code: 'loading-dose-allows-for-drug-on-board',
+        message: `Loading doses allow for the ${currentConcentration.toFixed(1)} mg/L predicted when the regimen starts.`,
+      });
+  }
   let result;
   try {
-    const mm = c.structure.elimination === 'michaelis-menten';
     result = findRegimens({
       regimenKind: req.regimenKind ?? (mm ? 'oral' : undefined),
       model: c.structure,
       parameters,
       target: exposure,
       options: {
-        ...(regimenPresets[c.ctx.course.drug] ?? {}),
+        ...preset,
         ...(practical
           ? { amountStep: practical.doseRoundingMg, intervals: practical.usualIntervalsH }
           : {}),
@@ -516,6 +567,7 @@ export async function searchRegimens(
         ...(practical?.usualMaxSingleDoseMg
           ? { usualMaxSingleDose: practical.usualMaxSingleDoseMg }
           : {}),
+        oralLoadingPortion: oralLoadingPortionFor(c.ctx.course.drug, practical) ?? 0,
         // A pharmacist who names the intervals has chosen them: no preference among them.
         ...(req.intervalsH ? { preferredIntervals: [] } : {}),
         ...(practical?.maxInfusionRateMgPerH
@@ -525,6 +577,15 @@ export async function searchRegimens(
         ...(req.intervalsH ? { intervals: req.intervalsH } : {}),
         ...(req.infusionH !== undefined ? { minInfusionDuration: req.infusionH } : {}),
         ...(req.roundToMg ? { amountStep: req.roundToMg } : {}),
+        ...(req.loadingDose !== undefined
+          ? {
+              loadingDose: {
+                enabled: req.loadingDose,
+                cap: preset.loadingDose?.cap ?? regimenSearchDefaultOptions.loadingDose.cap,
+              },
+            }
+          : {}),
+        currentConcentration,
         startTime,
       },
     });

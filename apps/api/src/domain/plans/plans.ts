@@ -19,6 +19,8 @@ import {
 import { recordAudit } from '../../data-access/audit';
 import { inTransaction, type Conn } from '../../data-access/casework-db';
 import { dosesOfCourse } from '../../data-access/doses-repo';
+import { findDrugModel } from '../../data-access/drug-models-repo';
+import { oralLoadingPortionFor } from '../engine/engine';
 import {
   findPlan,
   findPlanById,
@@ -290,7 +292,12 @@ async function buildContent(
   const { startHour: _ignored, ...rest } = input.regimen;
   void _ignored;
   const regimenInput = { ...rest, startAt: firstDose.toISOString() };
-  const regimen = planRegimen(regimenInput, firstDose, deps.timeZone);
+  const model = await findDrugModel(conn, ctx.course.modelId, ctx.course.modelVersion);
+  const portionMg = oralLoadingPortionFor(
+    ctx.course.drug,
+    model?.definition.practical as { oralLoadingPortionMg?: unknown } | undefined,
+  );
+  const regimen = planRegimen(regimenInput, firstDose, deps.timeZone, portionMg);
   const samplingInput = input.sampling ?? defaultSampling(regimen);
   const sampling = planSampling(regimen, samplingInput, deps.timeZone, errors, []);
   let recheckAt: string | null;

@@ -5,6 +5,7 @@ import type {
   SampleDrawInput,
   Warning,
 } from '@ebbtide/contracts';
+import { maintenanceAfterPortions, oralLoadingPortions } from '@ebbtide/kinetics';
 
 const HOUR_MS = 3_600_000;
 
@@ -33,25 +34,43 @@ const round = (x: number, digits = 1) => Number(x.toFixed(digits));
 /**
  * The planned doses with their clock times. Dose 0 is the loading dose (when there is one) at
  * `firstDoseAt`; maintenance doses 1..count follow every `intervalH`, the first one interval after
- * the loading dose (or at `firstDoseAt` when there is no loading dose).
+ * the loading dose (or at `firstDoseAt` when there is no loading dose). With `oralLoadingPortionMg`
+ * (the drug model's practical setting, phenytoin) an oral loading dose is listed in its portions,
+ * each numbered 0, and maintenance starts as `maintenanceAfterPortions` says.
  */
-export function planRegimen(regimen: Regimen, firstDoseAt: Date, timeZone: string): PlannedRegimen {
+export function planRegimen(
+  regimen: Regimen,
+  firstDoseAt: Date,
+  timeZone: string,
+  oralLoadingPortionMg?: number,
+): PlannedRegimen {
   const infusionH = regimen.route === 'iv-infusion' ? regimen.infusionH : 0;
   const loading = regimen.loadingDoseMg ?? null;
   const doses: PlannedRegimen['doses'] = [];
-  const add = (number: number, doseMg: number, start: Date) => {
+  const add = (number: number, doseMg: number, start: Date, label?: string) => {
     const end = new Date(start.getTime() + infusionH * HOUR_MS);
     doses.push({
       number,
-      label: number === 0 ? 'loading dose' : `dose ${number}`,
+      label: label ?? (number === 0 ? 'loading dose' : `dose ${number}`),
       doseMg,
       startAt: start.toISOString(),
       endAt: end.toISOString(),
       clock: clockOf(start, timeZone),
     });
   };
-  const offset = loading ? regimen.intervalH : 0;
-  if (loading) add(0, loading, firstDoseAt);
+  let offset = loading ? regimen.intervalH : 0;
+  if (loading && regimen.route === 'oral' && oralLoadingPortionMg) {
+    const portions = oralLoadingPortions(loading, oralLoadingPortionMg);
+    portions.forEach((p, i) =>
+      add(
+        0,
+        p.amount,
+        new Date(firstDoseAt.getTime() + p.offsetH * HOUR_MS),
+        portions.length > 1 ? `loading dose, part ${i + 1} of ${portions.length}` : undefined,
+      ),
+    );
+    offset = maintenanceAfterPortions(portions, regimen.intervalH);
+  } else if (loading) add(0, loading, firstDoseAt);
   for (let i = 1; i <= regimen.count; i += 1) {
     add(
       i,

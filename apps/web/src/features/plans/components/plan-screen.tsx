@@ -110,7 +110,7 @@ export function RegimenSummary({ plan }: { plan: Plan }) {
         </thead>
         <tbody>
           {r.doses.map((d) => (
-            <tr key={d.number}>
+            <tr key={`${d.number}-${d.startAt}`}>
               <td>{d.label}</td>
               <td>{d.doseMg} mg</td>
               <td>{formatAt(d.startAt, plan.timeZone)}</td>

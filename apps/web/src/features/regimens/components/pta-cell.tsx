@@ -5,6 +5,7 @@ import { ApiError } from '../../../lib/api-client';
 import { formatNumber } from '../../../lib/clinical-format';
 import { useJob } from '../api/get-job';
 import { useStartPta } from '../api/start-pta';
+import type { RegimenRoute } from '../utils/route';
 
 /** Probability of target attainment for one candidate: a server job, polled with its progress. */
 export function PtaCell({
@@ -13,7 +14,13 @@ export function PtaCell({
   parameters,
 }: {
   courseId: string;
-  regimen: { doseMg: number; intervalH: number; infusionH: number; loadingDoseMg: number | null };
+  regimen: {
+    doseMg: number;
+    intervalH: number;
+    infusionH: number;
+    loadingDoseMg: number | null;
+    route: RegimenRoute;
+  };
   parameters: 'map' | 'population';
 }) {
   const start = useStartPta(courseId);
@@ -40,7 +47,7 @@ export function PtaCell({
                 doseMg: regimen.doseMg,
                 intervalH: regimen.intervalH,
                 infusionH: regimen.infusionH,
-                route: regimen.infusionH > 0 ? 'iv-infusion' : 'iv-bolus',
+                route: regimen.route,
                 count: 6,
                 loadingDoseMg: regimen.loadingDoseMg,
               },

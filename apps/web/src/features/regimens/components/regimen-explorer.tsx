@@ -43,6 +43,7 @@ import {
   snapDose,
 } from '../utils/practical';
 import { attainment } from '../utils/target';
+import { isAbsorbed, routeOfCandidate, type RegimenRoute } from '../utils/route';
 import { simulateWhatIf, structureOf, type WhatIfResult } from '../utils/what-if';
 import { PtaCell } from './pta-cell';
 
@@ -51,7 +52,22 @@ interface Choice {
   intervalH: number;
   infusionH: number;
   loadingDoseMg: number | null;
+  route: RegimenRoute;
 }
+
+const choiceOf = (r: {
+  doseMg: number;
+  intervalH: number;
+  infusionH: number;
+  loadingDoseMg: number | null;
+  regimenKind: Parameters<typeof routeOfCandidate>[0];
+}): Choice => ({
+  doseMg: r.doseMg,
+  intervalH: r.intervalH,
+  infusionH: r.infusionH,
+  loadingDoseMg: r.loadingDoseMg,
+  route: routeOfCandidate(r.regimenKind, r.infusionH),
+});
 
 const ATTAIN = {
   yes: { label: 'in range', tone: 'text-emerald-800' },
@@ -70,7 +86,11 @@ export function RegimenExplorer() {
   const hasLevels = (levels.data?.items.length ?? 0) > 0;
   const parameterSource = hasLevels ? 'map' : 'population';
   const fit = useFit(course.id, { method: hasLevels ? 'map' : 'population' }, !levels.isPending);
-  const search = useRegimenSearch(course.id, { parameters: parameterSource });
+  const [withLoading, setWithLoading] = useState(false);
+  const search = useRegimenSearch(course.id, {
+    parameters: parameterSource,
+    ...(withLoading ? { loadingDose: true } : {}),
+  });
   const createPlan = useCreatePlan(course.id);
   const [plan, setPlan] = useState<Plan | null>(null);
   const [choice, setChoice] = useState<Choice | null>(null);
@@ -91,23 +111,17 @@ export function RegimenExplorer() {
   }, [doses.data, reference, choice?.intervalH]);
 
   const suggestion = search.data?.suggestion ?? search.data?.regimens[0] ?? null;
-  const current: Choice | null =
-    choice ??
-    (suggestion
-      ? {
-          doseMg: suggestion.doseMg,
-          intervalH: suggestion.intervalH,
-          infusionH: suggestion.infusionH,
-          loadingDoseMg: suggestion.loadingDoseMg,
-        }
-      : null);
+  const current: Choice | null = choice ?? (suggestion ? choiceOf(suggestion) : null);
 
   const structure = fit.data ? structureOf(model.data?.definition, fit.data.parameters) : null;
   const simulateChoice = (c: Choice): WhatIfResult | null => {
     if (!fit.data || !structure) return null;
     try {
+      const absorbed = isAbsorbed(c.route);
       return simulateWhatIf(structure, fit.data.parameters as unknown as PkParameters, history, {
         ...c,
+        absorbed,
+        loadingPortionMg: absorbed ? settings.oralLoadingPortionMg : null,
         startHour,
         count: Math.max(4, Math.ceil(96 / c.intervalH)),
       });
@@ -124,26 +138,29 @@ export function RegimenExplorer() {
     if (next.loadingDoseMg !== null)
       next.loadingDoseMg = snapDose(next.loadingDoseMg, settings.doseRoundingMg);
     const largest = Math.max(next.doseMg, next.loadingDoseMg ?? 0);
-    next.infusionH = enforceInfusionTime(
-      next.infusionH,
-      largest,
-      settings.maxInfusionRateMgPerH,
-    ).infusionH;
+    next.infusionH = isAbsorbed(next.route)
+      ? 0
+      : enforceInfusionTime(next.infusionH, largest, settings.maxInfusionRateMgPerH).infusionH;
     setChoice(next);
   };
 
-  const rateCheck = current
-    ? enforceInfusionTime(
-        current.infusionH,
-        Math.max(current.doseMg, current.loadingDoseMg ?? 0),
-        settings.maxInfusionRateMgPerH,
-      )
-    : null;
+  const rateCheck =
+    current && !isAbsorbed(current.route)
+      ? enforceInfusionTime(
+          current.infusionH,
+          Math.max(current.doseMg, current.loadingDoseMg ?? 0),
+          settings.maxInfusionRateMgPerH,
+        )
+      : null;
 
   const pinnedCurves = (search.data?.regimens ?? [])
     .map((r, i) => ({ r, i }))
     .filter(({ i }) => pinned.includes(i))
-    .map(({ r, i }) => ({ i, label: `Candidate ${i + 1}`, result: simulateChoice(r) }));
+    .map(({ r, i }) => ({
+      i,
+      label: `Candidate ${i + 1}`,
+      result: simulateChoice(choiceOf(r)),
+    }));
   const chartData = (() => {
     const rows = new Map<number, Record<string, number>>();
     const add = (key: string, pts: { hour: number; concentrationMgL: number }[] | undefined) => {
@@ -166,7 +183,7 @@ export function RegimenExplorer() {
         doseMg: c.doseMg,
         intervalH: c.intervalH,
         infusionH: c.infusionH,
-        route: c.infusionH > 0 ? 'iv-infusion' : 'iv-bolus',
+        route: c.route,
         count: 6,
         loadingDoseMg: c.loadingDoseMg,
       });
@@ -192,6 +209,14 @@ export function RegimenExplorer() {
           {' · '}ranked by target met, then the drug’s usual intervals and dose sizes, then
           closeness to the target centre
         </p>
+        <label className="mb-2 flex items-center gap-2 text-sm">
+          <input
+            type="checkbox"
+            checked={withLoading}
+            onChange={(e) => setWithLoading(e.target.checked)}
+          />
+          propose a loading dose with each regimen
+        </label>
         {!practical.found && model.data && (
           <Warnings
             warnings={[
@@ -240,7 +265,7 @@ export function RegimenExplorer() {
                     >
                       <td>{i + 1}</td>
                       <td>
-                        {echoRegimen(r)}
+                        {echoRegimen(choiceOf(r))}
                         {isSuggestion && (
                           <div className="text-xs font-semibold text-tide-800">
                             {r.usualPractice ? 'suggested' : 'closest to target'}
@@ -252,7 +277,14 @@ export function RegimenExplorer() {
                           </div>
                         ))}
                       </td>
-                      <td>{r.loadingDoseMg ? echoDoseMg(r.loadingDoseMg) : '—'}</td>
+                      <td>
+                        {r.loadingDoseMg ? echoDoseMg(r.loadingDoseMg) : '—'}
+                        {r.loadingDoseMg && r.loadingPortions && r.loadingPortions > 1 && (
+                          <div className="text-xs text-slate-600">
+                            in {r.loadingPortions} portions, 2 h apart
+                          </div>
+                        )}
+                      </td>
                       <td>{formatConcentration(r.exposure.peakMgL)}</td>
                       <td>{formatConcentration(r.exposure.troughMgL)}</td>
                       <td>{formatAuc(r.exposure.auc24)}</td>
@@ -260,20 +292,14 @@ export function RegimenExplorer() {
                         {r.meetsTarget ? 'in range' : ATTAIN[a].label}
                       </td>
                       <td>
-                        <PtaCell courseId={course.id} regimen={r} parameters={parameterSource} />
+                        <PtaCell
+                          courseId={course.id}
+                          regimen={choiceOf(r)}
+                          parameters={parameterSource}
+                        />
                       </td>
                       <td className="whitespace-nowrap">
-                        <Button
-                          variant="quiet"
-                          onClick={() =>
-                            setChoice({
-                              doseMg: r.doseMg,
-                              intervalH: r.intervalH,
-                              infusionH: r.infusionH,
-                              loadingDoseMg: r.loadingDoseMg,
-                            })
-                          }
-                        >
+                        <Button variant="quiet" onClick={() => setChoice(choiceOf(r))}>
                           Try in what-if
                         </Button>
                         <label className="ml-1 text-xs">
@@ -362,26 +388,28 @@ export function RegimenExplorer() {
                   </select>
                 )}
               </Field>
-              <Field
-                label="Infusion time (h)"
-                hint={
-                  rateCheck && rateCheck.minimumH > 0
-                    ? `at least ${echoHours(Math.ceil(rateCheck.minimumH * 4) / 4)} at ${formatNumber(settings.maxInfusionRateMgPerH ?? 0)} mg/h; rate now ${formatNumber(infusionRate(Math.max(current.doseMg, current.loadingDoseMg ?? 0), current.infusionH) ?? 0, 0)} mg/h`
-                    : 'quarter-hour steps'
-                }
-              >
-                {(a) => (
-                  <input
-                    {...a}
-                    type="number"
-                    className={`${inputClass} w-28`}
-                    step={0.25}
-                    min={rateCheck ? Math.max(0.25, Math.ceil(rateCheck.minimumH * 4) / 4) : 0.25}
-                    value={current.infusionH}
-                    onChange={(e) => set({ infusionH: Number(e.target.value) })}
-                  />
-                )}
-              </Field>
+              {!isAbsorbed(current.route) && (
+                <Field
+                  label="Infusion time (h)"
+                  hint={
+                    rateCheck && rateCheck.minimumH > 0
+                      ? `at least ${echoHours(Math.ceil(rateCheck.minimumH * 4) / 4)} at ${formatNumber(settings.maxInfusionRateMgPerH ?? 0)} mg/h; rate now ${formatNumber(infusionRate(Math.max(current.doseMg, current.loadingDoseMg ?? 0), current.infusionH) ?? 0, 0)} mg/h`
+                      : 'quarter-hour steps'
+                  }
+                >
+                  {(a) => (
+                    <input
+                      {...a}
+                      type="number"
+                      className={`${inputClass} w-28`}
+                      step={0.25}
+                      min={rateCheck ? Math.max(0.25, Math.ceil(rateCheck.minimumH * 4) / 4) : 0.25}
+                      value={current.infusionH}
+                      onChange={(e) => set({ infusionH: Number(e.target.value) })}
+                    />
+                  )}
+                </Field>
+              )}
               <fieldset className="flex flex-col gap-1">
                 <legend className="text-xs font-semibold text-slate-700">Loading dose</legend>
                 <label className="flex items-center gap-2 text-sm">

@@ -12,6 +12,8 @@ export interface PracticalSettings {
   usualIntervalsH: number[];
   /** Usual infusion duration, h. */
   defaultInfusionH: number;
+  /** Oral loading doses are given in portions of at most this, mg (phenytoin); null: one dose. */
+  oralLoadingPortionMg: number | null;
 }
 
 /** Infusion times are offered in quarter hours (common practice: pump programming and nursing rounds). */
@@ -73,6 +75,10 @@ export function practicalFromDefinition(definition: Record<string, unknown> | un
           ? [...p.usualIntervalsH]
           : [8, 12, 24, 36, 48],
       defaultInfusionH: p && typeof p.defaultInfusionH === 'number' ? p.defaultInfusionH : 1,
+      oralLoadingPortionMg:
+        p && typeof p.oralLoadingPortionMg === 'number' && p.oralLoadingPortionMg > 0
+          ? p.oralLoadingPortionMg
+          : null,
     },
   };
 }

@@ -42,4 +42,41 @@ describe('simulateWhatIf', () => {
       [48, 1000],
     ]);
   });
+  it('oral doses are absorbed with the model F: AUC24 at steady state = F·daily dose / CL', () => {
+    // Source: AUCτ,ss = F·D/CL for linear kinetics, any absorption (Gibaldi & Perrier, Pharmacokinetics,
+    // 2nd ed., 1982 — from memory; pk-reference A7). As an IV bolus it would read 1/F higher.
+    const r = simulateWhatIf(
+      { compartments: 1, elimination: 'linear' },
+      { CL: 4, V1: 50, ka: 1, F: 0.8 },
+      [],
+      {
+        doseMg: 500,
+        intervalH: 12,
+        infusionH: 0,
+        loadingDoseMg: null,
+        absorbed: true,
+        startHour: 0,
+        count: 20,
+      },
+    );
+    expect(r.auc24).toBeCloseTo((0.8 * 2 * 500) / 4, 0);
+  });
+  it('an oral loading dose in portions: 400 mg every 2 h, maintenance one interval after the start', () => {
+    const doses = regimenDoses({
+      doseMg: 300,
+      intervalH: 24,
+      infusionH: 0,
+      loadingDoseMg: 1000,
+      absorbed: true,
+      loadingPortionMg: 400,
+      startHour: 10,
+      count: 1,
+    });
+    expect(doses.map((d) => [d.time, d.amount, d.route])).toEqual([
+      [10, 400, 'oral'],
+      [12, 400, 'oral'],
+      [14, 200, 'oral'],
+      [34, 300, 'oral'],
+    ]);
+  });
 });

@@ -1,4 +1,11 @@
-import { simulate, type Dose, type ModelStructure, type PkParameters } from '@ebbtide/kinetics';
+import {
+  maintenanceAfterPortions,
+  oralLoadingPortions,
+  simulate,
+  type Dose,
+  type ModelStructure,
+  type PkParameters,
+} from '@ebbtide/kinetics';
 
 /**
  * What-if simulation in the browser with the same engine the server uses: the recorded doses,
@@ -12,6 +19,10 @@ export interface WhatIfRegimen {
   /** 0 for a bolus. */
   infusionH: number;
   loadingDoseMg: number | null;
+  /** Oral/IM doses are absorbed (the engine's first-order `oral` route, with the model's F and ka). */
+  absorbed?: boolean;
+  /** Oral loading split into portions of at most this, mg, 2 h apart (phenytoin); null: one dose. */
+  loadingPortionMg?: number | null;
   /** Hour of the first regimen dose on the course timeline. */
   startHour: number;
   /** Maintenance doses to simulate. */
@@ -46,13 +57,19 @@ export function structureOf(
 
 export function regimenDoses(r: WhatIfRegimen): Dose[] {
   const doses: Dose[] = [];
-  const route = r.infusionH > 0 ? 'infusion' : 'bolus';
   const shape = (time: number, amount: number): Dose =>
-    route === 'infusion'
-      ? { time, amount, route, duration: r.infusionH }
-      : { time, amount, route: 'bolus' };
+    r.absorbed
+      ? { time, amount, route: 'oral' }
+      : r.infusionH > 0
+        ? { time, amount, route: 'infusion', duration: r.infusionH }
+        : { time, amount, route: 'bolus' };
   let t = r.startHour;
-  if (r.loadingDoseMg) {
+  if (r.loadingDoseMg && r.absorbed && r.loadingPortionMg) {
+    // As the server's regimen finder and plan give it (dosing/oral-loading of the engine).
+    const portions = oralLoadingPortions(r.loadingDoseMg, r.loadingPortionMg);
+    for (const p of portions) doses.push(shape(r.startHour + p.offsetH, p.amount));
+    t = r.startHour + maintenanceAfterPortions(portions, r.intervalH);
+  } else if (r.loadingDoseMg) {
     doses.push(shape(t, r.loadingDoseMg));
     t += r.intervalH;
   }
