@@ -1,14 +1,12 @@
 import path from 'node:path';
-import { randomBytes } from 'node:crypto';
-import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
-import { api } from '../support/api';
-import { launchBrowser, screenshotDir } from '../support/browser';
-import { DEMO_LOGINS, fillProviderSignIn } from '../support/sign-in';
+import { api, createJourneyPatient } from '../support/api';
+import { openJourneyPage, screenshotDir } from '../support/browser';
+import { DEMO_LOGINS, signInToCaseload } from '../support/sign-in';
 
-let session: Awaited<ReturnType<typeof launchBrowser>>;
+let journey: Awaited<ReturnType<typeof openJourneyPage>>;
 let page: Page;
-const consoleErrors: string[] = [];
 const shot = (name: string) =>
   page.screenshot({ path: path.join(screenshotDir, `casework-${name}.png`), fullPage: true });
 
@@ -27,35 +25,27 @@ let familyName = '';
 
 beforeAll(async () => {
   // The drug-model library is reference data: the server syncs it from the engine at start-up.
-  session = await launchBrowser();
-  page = await session.context.newPage();
-  page.on('console', (msg) => {
-    if (msg.type() === 'error') consoleErrors.push(`${page.url()}: ${msg.text()}`);
-  });
+  journey = await openJourneyPage();
+  page = journey.page;
 });
-afterAll(() => session?.close());
+afterAll(() => journey?.session.close());
 
 describe('casework journey (pharmacist, vancomycin)', () => {
   it('signs in as the pharmacist', async () => {
-    await page.goto(inject('baseUrl'));
-    await page.getByRole('link', { name: 'Continue to hospital sign-in' }).click();
-    await fillProviderSignIn(page, DEMO_LOGINS.pharmacist);
-    await page.getByRole('heading', { name: 'Caseload' }).waitFor();
+    await signInToCaseload(page, DEMO_LOGINS.pharmacist);
   });
 
   it('creates its own patient, covariates, course and doses through the API', async () => {
     const request = page.request;
-    familyName = `Tarrant-${randomBytes(3).toString('hex')}`;
-    const patient = await api<{ id: string }>(request, 'post', '/api/patients', {
-      isTeaching: false,
-      mrn: `KB-${randomBytes(4).toString('hex')}`,
+    const patient = await createJourneyPatient(request, {
       givenName: 'Odile',
-      familyName,
+      familyName: 'Tarrant',
       sex: 'female',
       birthDate: '1958-03-14',
       ward: '4 North',
     });
     patientId = patient.id;
+    familyName = patient.familyName;
     const observedAt = new Date(firstDose.getTime() - 2 * hour).toISOString();
     for (const c of [
       { kind: 'weight', value: 72, unit: 'kg', weightSource: 'measured' },
@@ -206,6 +196,6 @@ describe('casework journey (pharmacist, vancomycin)', () => {
     await page.getByRole('heading', { name: 'Caseload' }).waitFor();
     await page.getByRole('link', { name: new RegExp(familyName, 'i') }).waitFor();
     await shot('caseload');
-    expect(consoleErrors).toEqual([]);
+    expect(journey.consoleErrors).toEqual([]);
   });
 });

@@ -1,17 +1,15 @@
 import path from 'node:path';
-import { randomBytes } from 'node:crypto';
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
 import type { Page } from 'playwright-core';
-import { api } from '../support/api';
+import { api, createJourneyPatient } from '../support/api';
 import { drugModelLibrary } from '../../packages/kinetics/src/index';
 import { createDb } from '../../apps/api/src/data-access/db';
 import { syncEngineLibrary } from '../../apps/api/src/domain/drug-models/drug-models';
-import { launchBrowser, screenshotDir } from '../support/browser';
-import { DEMO_LOGINS, fillProviderSignIn } from '../support/sign-in';
+import { openJourneyPage, screenshotDir } from '../support/browser';
+import { DEMO_LOGINS, signInToCaseload } from '../support/sign-in';
 
-let session: Awaited<ReturnType<typeof launchBrowser>>;
+let journey: Awaited<ReturnType<typeof openJourneyPage>>;
 let page: Page;
-const consoleErrors: string[] = [];
 const csvPanel = () => page.getByRole('region', { name: 'CSV upload' });
 const shot = (name: string) =>
   page.screenshot({ path: path.join(screenshotDir, `imports-${name}.png`), fullPage: true });
@@ -53,26 +51,18 @@ beforeAll(async () => {
       await db.destroy();
     }
   }
-  session = await launchBrowser();
-  page = await session.context.newPage();
-  page.on('console', (msg) => {
-    if (msg.type() === 'error') consoleErrors.push(`${page.url()}: ${msg.text()}`);
-  });
+  journey = await openJourneyPage();
+  page = journey.page;
 });
-afterAll(() => session?.close());
+afterAll(() => journey?.session.close());
 
 describe('CSV import of levels (pharmacist)', () => {
   it('signs in and creates its own patient, course and doses through the API', async () => {
-    await page.goto(inject('baseUrl'));
-    await page.getByRole('link', { name: 'Continue to hospital sign-in' }).click();
-    await fillProviderSignIn(page, DEMO_LOGINS.pharmacist);
-    await page.getByRole('heading', { name: 'Caseload' }).waitFor();
+    await signInToCaseload(page, DEMO_LOGINS.pharmacist);
     const request = page.request;
-    const patient = await api<{ id: string }>(request, 'post', '/api/patients', {
-      isTeaching: false,
-      mrn: `KB-${randomBytes(4).toString('hex')}`,
+    const patient = await createJourneyPatient(request, {
       givenName: 'Ines',
-      familyName: `Marrow-${randomBytes(3).toString('hex')}`,
+      familyName: 'Marrow',
       sex: 'female',
       birthDate: '1961-07-02',
     });
@@ -203,6 +193,6 @@ describe('CSV import of levels (pharmacist)', () => {
       .first()
       .waitFor();
     await shot('3-course-levels');
-    expect(consoleErrors).toEqual([]);
+    expect(journey.consoleErrors).toEqual([]);
   });
 });

@@ -1,15 +1,13 @@
 import path from 'node:path';
-import { randomBytes } from 'node:crypto';
 import { writeFileSync } from 'node:fs';
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
 import type { Page } from 'playwright-core';
-import { api } from '../support/api';
-import { launchBrowser, screenshotDir } from '../support/browser';
-import { DEMO_LOGINS, fillProviderSignIn } from '../support/sign-in';
+import { api, createJourneyPatient } from '../support/api';
+import { openJourneyPage, screenshotDir } from '../support/browser';
+import { DEMO_LOGINS, signInToCaseload } from '../support/sign-in';
 
-let session: Awaited<ReturnType<typeof launchBrowser>>;
+let journey: Awaited<ReturnType<typeof openJourneyPage>>;
 let page: Page;
-const consoleErrors: string[] = [];
 const shot = (name: string) =>
   page.screenshot({ path: path.join(screenshotDir, `phenytoin-${name}.png`), fullPage: true });
 
@@ -17,26 +15,18 @@ const hour = 3_600_000;
 let courseId = '';
 
 beforeAll(async () => {
-  session = await launchBrowser();
-  page = await session.context.newPage();
-  page.on('console', (msg) => {
-    if (msg.type() === 'error') consoleErrors.push(`${page.url()}: ${msg.text()}`);
-  });
+  journey = await openJourneyPage();
+  page = journey.page;
 });
-afterAll(() => session?.close());
+afterAll(() => journey?.session.close());
 
 describe('oral phenytoin in the regimen explorer (pharmacist)', () => {
   it('signs in and creates an oral phenytoin course through the API', async () => {
-    await page.goto(inject('baseUrl'));
-    await page.getByRole('link', { name: 'Continue to hospital sign-in' }).click();
-    await fillProviderSignIn(page, DEMO_LOGINS.pharmacist);
-    await page.getByRole('heading', { name: 'Caseload' }).waitFor();
+    await signInToCaseload(page, DEMO_LOGINS.pharmacist);
     const request = page.request;
-    const patient = await api<{ id: string }>(request, 'post', '/api/patients', {
-      isTeaching: false,
-      mrn: `KB-${randomBytes(4).toString('hex')}`,
+    const patient = await createJourneyPatient(request, {
       givenName: 'Ansel',
-      familyName: `Drummond-${randomBytes(3).toString('hex')}`,
+      familyName: 'Drummond',
       sex: 'male',
       birthDate: '1971-09-02',
       ward: '6 West',
@@ -121,6 +111,6 @@ describe('oral phenytoin in the regimen explorer (pharmacist)', () => {
     );
     expect(pdf.ok()).toBe(true);
     writeFileSync(path.join(screenshotDir, 'phenytoin-plan.pdf'), await pdf.body());
-    expect(consoleErrors).toEqual([]);
+    expect(journey.consoleErrors).toEqual([]);
   });
 });

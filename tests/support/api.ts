@@ -1,3 +1,4 @@
+import { randomBytes } from 'node:crypto';
 import type { APIRequestContext } from 'playwright-core';
 import { inject } from 'vitest';
 
@@ -19,4 +20,28 @@ export async function api<T>(
   if (!res.ok())
     throw new Error(`${method.toUpperCase()} ${url}: ${res.status()} ${await res.text()}`);
   return (await res.json()) as T;
+}
+
+/**
+ * A real (identifiable, invented) patient of the journey's own, with a fresh MRN and a family name
+ * made unique by a suffix, so runs never collide. Returns its id and the family name used.
+ */
+export async function createJourneyPatient(
+  request: APIRequestContext,
+  fields: {
+    givenName: string;
+    familyName: string;
+    sex: 'female' | 'male';
+    birthDate: string;
+    ward?: string;
+  },
+): Promise<{ id: string; familyName: string }> {
+  const familyName = `${fields.familyName}-${randomBytes(3).toString('hex')}`;
+  const patient = await api<{ id: string }>(request, 'post', '/api/patients', {
+    isTeaching: false,
+    mrn: `KB-${randomBytes(4).toString('hex')}`,
+    ...fields,
+    familyName,
+  });
+  return { id: patient.id, familyName };
 }

@@ -1,7 +1,7 @@
 import { mkdirSync } from 'node:fs';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { chromium, type Browser, type BrowserContext } from 'playwright-core';
+import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core';
 
 export const screenshotDir = path.resolve(
   path.dirname(fileURLToPath(import.meta.url)),
@@ -43,4 +43,22 @@ export async function launchBrowser(): Promise<{
       await browser.close();
     },
   };
+}
+
+/**
+ * A browser with one page whose console errors are collected (a journey ends by asserting there were
+ * none). Close `session` after the suite.
+ */
+export async function openJourneyPage(): Promise<{
+  session: Awaited<ReturnType<typeof launchBrowser>>;
+  page: Page;
+  consoleErrors: string[];
+}> {
+  const session = await launchBrowser();
+  const page = await session.context.newPage();
+  const consoleErrors: string[] = [];
+  page.on('console', (msg) => {
+    if (msg.type() === 'error') consoleErrors.push(`${page.url()}: ${msg.text()}`);
+  });
+  return { session, page, consoleErrors };
 }

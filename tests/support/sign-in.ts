@@ -1,4 +1,5 @@
 import type { Page } from 'playwright-core';
+import { inject } from 'vitest';
 import { DEMO_PASSWORD } from '../../apps/idp/src/demo';
 
 export const DEMO_LOGINS = {
@@ -17,4 +18,12 @@ export async function fillProviderSignIn(
   await page.getByLabel('User name or e-mail').fill(login);
   await page.getByLabel('Password').fill(password);
   await page.getByRole('button', { name: 'Sign in' }).click();
+}
+
+/** From the start page through the provider's form to the caseload, as a user signs in. */
+export async function signInToCaseload(page: Page, login: string): Promise<void> {
+  await page.goto(inject('baseUrl'));
+  await page.getByRole('link', { name: 'Continue to hospital sign-in' }).click();
+  await fillProviderSignIn(page, login);
+  await page.getByRole('heading', { name: 'Caseload' }).waitFor();
 }
