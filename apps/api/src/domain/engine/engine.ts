@@ -593,7 +593,8 @@ export async function searchRegimens(
     engineRefused(error);
   }
   const regimens = result.candidates.map(toRegimenResult);
-  if (result.refused.length) {
+  // The finder already says why candidates were left out (no steady state); say it once.
+  if (result.refused.length && !result.warnings.some((w) => w.code === 'no-steady-state')) {
     extra.push({
       code: 'regimens-refused',
       message: `${result.refused.length} candidate regimen(s) were left out: ${[...new Set(result.refused.map((r) => r.message))].slice(0, 2).join(' ')}`,
