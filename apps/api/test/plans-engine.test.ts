@@ -121,15 +121,24 @@ describe('POST /api/courses/:courseId/plans (oral phenytoin loading)', () => {
       .post(`/api/courses/${course.body.id}/simulate`)
       .send({ parameters: 'population', regimen, horizonH: 24, stepH: 0.25 });
     expect(screen.status, JSON.stringify(screen.body)).toBe(200);
-    // Oral doses are absorbed with the model's F (0.859 here), not simulated as IV boluses: the same
-    // regimen by IV bolus gives a higher AUC24 (and more than proportionally so: capacity-limited).
-    const asBolus = await pharmacist.post(`/api/courses/${course.body.id}/simulate`).send({
+    // Oral doses are absorbed with the model's F (0.859 here), not simulated as IV doses: the same
+    // regimen by IV infusion gives a higher AUC24 (and more than proportionally so: capacity-limited).
+    const asInfusion = await pharmacist.post(`/api/courses/${course.body.id}/simulate`).send({
       parameters: 'population',
-      regimen: { ...regimen, route: 'iv-bolus' },
+      regimen: { ...regimen, route: 'iv-infusion', infusionH: 0.5 },
       horizonH: 24,
       stepH: 0.25,
     });
-    expect(asBolus.body.exposure.auc24).toBeGreaterThan(screen.body.exposure.auc24 / 0.859);
+    expect(asInfusion.status, JSON.stringify(asInfusion.body)).toBe(200);
+    expect(asInfusion.body.exposure.auc24).toBeGreaterThan(screen.body.exposure.auc24 / 0.859);
+    // The phenytoin model covers oral and IV infusion only: an IV bolus is refused, not simulated.
+    const bolus = await pharmacist
+      .post(`/api/courses/${course.body.id}/simulate`)
+      .send({ parameters: 'population', regimen: { ...regimen, route: 'iv-bolus' } });
+    expect(bolus.status).toBe(400);
+    expect(bolus.body.fieldErrors['regimen.route'][0]).toMatch(
+      /oral or IM .* and IV infusion only/,
+    );
     // Act
     const created = await pharmacist
       .post(`/api/courses/${course.body.id}/plans`)
@@ -153,5 +162,30 @@ describe('POST /api/courses/:courseId/plans (oral phenytoin loading)', () => {
     );
     close(created.body.predicted.troughMgL, screen.body.exposure.troughMgL);
     close(created.body.predicted.auc24, screen.body.exposure.auc24);
+  });
+});
+
+describe('routes a drug model does not cover', () => {
+  it('when a vancomycin plan or simulation is given by mouth, then 400 names the route and nothing is stored', async () => {
+    const { courseId } = await realCourse(pharmacist);
+    const count = async () =>
+      (
+        await world.db('plans').where({ course_id: courseId }).count<{ count: string }[]>({
+          count: '*',
+        })
+      )[0]!.count;
+    const before = await count();
+    const oral = regimenBody({ startAt: hoursFromNow(2), route: 'oral', infusionH: 0 });
+    const plan = await pharmacist.post(`/api/courses/${courseId}/plans`).send(oral);
+    expect(plan.status).toBe(400);
+    expect(plan.body.fieldErrors.route[0]).toMatch(/IV infusion only, not oral/);
+    const { rationale: _r, ...regimen } = oral;
+    void _r;
+    const sim = await pharmacist
+      .post(`/api/courses/${courseId}/simulate`)
+      .send({ parameters: 'map', regimen });
+    expect(sim.status).toBe(400);
+    expect(Object.keys(sim.body.fieldErrors)).toEqual(['regimen.route']);
+    expect(await count()).toBe(before);
   });
 });

@@ -103,6 +103,14 @@ describe('POST /api/teaching/cases/:id/practice-plans', () => {
     expect(res.body.score.falseAlarms).toEqual(['unit-mix-up']);
   });
 
+  it('when the practice regimen uses a route the case model does not cover, then 400 names it', async () => {
+    const res = await trainee.post(`/api/teaching/cases/${caseIds[0]}/practice-plans`).send({
+      regimen: { doseMg: 1250, intervalH: 12, infusionH: 0, route: 'oral', startHour: 60 },
+    });
+    expect(res.status).toBe(400);
+    expect(res.body.fieldErrors['regimen.route'][0]).toMatch(/IV infusion only/);
+  });
+
   it('when the regimen is invalid, then 400 with field errors', async () => {
     const res = await trainee.post(`/api/teaching/cases/${caseIds[0]}/practice-plans`).send({
       regimen: { doseMg: 0, intervalH: 12, infusionH: 1, startHour: 10 },

@@ -104,6 +104,8 @@ export const practicePlanCreateSchema = z
         doseMg: z.number().positive().max(10_000),
         intervalH: z.number().positive().max(168),
         infusionH: z.number().min(0).max(48),
+        /** How it is given; default: an IV infusion, or an IV bolus when infusionH is 0. */
+        route: z.enum(['iv-infusion', 'iv-bolus', 'oral', 'im']).optional(),
         loadingDoseMg: z.number().positive().max(10_000).nullable().optional(),
         /** First dose of the regimen, hours from the case's first dose. */
         startHour: z

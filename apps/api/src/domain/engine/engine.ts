@@ -27,6 +27,7 @@ import {
   twoLevelEstimate,
   type DesignValue,
   type Dose,
+  type DrugModelEntry,
   type ExposureTarget,
   type MapFitResult,
   type PkParameters,
@@ -168,6 +169,31 @@ export function oralLoadingPortionFor(
   return preset && preset > 0 ? preset : undefined;
 }
 
+const ROUTE_WORDS: Record<Dose['route'], string> = {
+  infusion: 'IV infusion',
+  bolus: 'IV bolus',
+  oral: 'oral or IM (absorbed)',
+};
+
+/** The engine route of a regimen's route: oral and IM are absorbed whatever the infusion time says. */
+export function engineRouteOf(r: Pick<Regimen, 'route' | 'infusionH'>): Dose['route'] {
+  if (r.route === 'oral' || r.route === 'im') return 'oral';
+  return r.infusionH === 0 || r.route === 'iv-bolus' ? 'bolus' : 'infusion';
+}
+
+/**
+ * Why the drug model cannot give this route (e.g. vancomycin only by IV infusion), or null when it
+ * can: a route the model was not built for is refused, never simulated.
+ */
+export function routeProblem(
+  entry: Pick<DrugModelEntry, 'routes' | 'title'>,
+  r: Pick<Regimen, 'route' | 'infusionH'>,
+): string | null {
+  const route = engineRouteOf(r);
+  if (entry.routes.includes(route)) return null;
+  return `${entry.title} covers ${entry.routes.map((x) => ROUTE_WORDS[x]).join(' and ')} only, not ${ROUTE_WORDS[route]}`;
+}
+
 function regimenDoses(c: EngineCase, r: Regimen): { doses: Dose[]; start: number } {
   const last = c.doses[c.doses.length - 1];
   let start: number;
@@ -182,14 +208,12 @@ function regimenDoses(c: EngineCase, r: Regimen): { doses: Dose[]; start: number
       });
     start = hoursOf(c.referenceAt, r.startAt ?? null, r.startHour ?? null);
   } else start = last ? last.time + r.intervalH : 0;
-  // Oral and IM doses are absorbed (the engine's first-order route, with the model's F and ka) whatever
-  // their infusion time of 0 says; an IV dose with no infusion time is a bolus.
-  const route =
-    r.route === 'oral' || r.route === 'im'
-      ? 'oral'
-      : r.infusionH === 0 || r.route === 'iv-bolus'
-        ? 'bolus'
-        : 'infusion';
+  const problem = routeProblem(c.entry, r);
+  if (problem)
+    throw new AppError('validation-failed', problem, 400, {
+      fieldErrors: { 'regimen.route': [problem] },
+    });
+  const route = engineRouteOf(r);
   const dose = (time: number, amount: number): Dose =>
     route === 'infusion' ? { time, amount, route, duration: r.infusionH } : { time, amount, route };
   const out: Dose[] = [];

@@ -20,7 +20,7 @@ import { recordAudit } from '../../data-access/audit';
 import { inTransaction, type Conn } from '../../data-access/casework-db';
 import { dosesOfCourse } from '../../data-access/doses-repo';
 import { findDrugModel } from '../../data-access/drug-models-repo';
-import { oralLoadingPortionFor } from '../engine/engine';
+import { oralLoadingPortionFor, routeProblem } from '../engine/engine';
 import {
   findPlan,
   findPlanById,
@@ -38,6 +38,7 @@ import {
 } from '../../data-access/plans-repo';
 import { AppError, notFound } from '../../lib/app-error';
 import type { OutgoingMail } from '../../mail/outbox';
+import type { DrugModelEntry } from '@ebbtide/kinetics';
 import {
   planCountersignedMail,
   planReturnedMail,
@@ -293,6 +294,14 @@ async function buildContent(
   void _ignored;
   const regimenInput = { ...rest, startAt: firstDose.toISOString() };
   const model = await findDrugModel(conn, ctx.course.modelId, ctx.course.modelVersion);
+  const routes = model?.definition.routes;
+  if (Array.isArray(routes)) {
+    const problem = routeProblem(
+      { routes: routes as DrugModelEntry['routes'], title: model!.name },
+      input.regimen,
+    );
+    if (problem) (errors.route ??= []).push(problem);
+  }
   const portionMg = oralLoadingPortionFor(
     ctx.course.drug,
     model?.definition.practical as { oralLoadingPortionMg?: unknown } | undefined,

@@ -187,7 +187,7 @@ export async function submitPracticePlan(
     doseMg: r.doseMg,
     intervalH: r.intervalH,
     infusionH: r.infusionH,
-    route: r.infusionH > 0 ? 'iv-infusion' : 'iv-bolus',
+    route: r.route ?? (r.infusionH > 0 ? 'iv-infusion' : 'iv-bolus'),
     count,
     loadingDoseMg: r.loadingDoseMg ?? null,
     startHour: r.startHour,

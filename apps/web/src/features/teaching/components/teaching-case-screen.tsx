@@ -32,7 +32,12 @@ const ROUTE_LABELS: Record<string, string> = {
   'iv-infusion': 'IV infusion',
   'iv-bolus': 'IV bolus',
   oral: 'oral',
+  im: 'IM',
 };
+type PracticeRoute = 'iv-infusion' | 'iv-bolus' | 'oral' | 'im';
+const PRACTICE_ROUTES: PracticeRoute[] = ['iv-infusion', 'iv-bolus', 'oral', 'im'];
+const isPracticeRoute = (r: string | undefined): r is PracticeRoute =>
+  PRACTICE_ROUTES.includes(r as PracticeRoute);
 const TARGET_LABELS: Record<string, string> = {
   auc24: 'AUC24',
   trough: 'trough',
@@ -186,6 +191,7 @@ export function TeachingCaseScreen() {
   const [dose, setDose] = useState('1000');
   const [interval, setIntervalH] = useState('12');
   const [infusion, setInfusion] = useState('1');
+  const [chosenRoute, setRoute] = useState<PracticeRoute | null>(null);
   const [start, setStart] = useState('');
   const [excluded, setExcluded] = useState<string[]>([]);
   const [flags, setFlags] = useState<PitfallCode[]>([]);
@@ -194,6 +200,11 @@ export function TeachingCaseScreen() {
   if (tc.error || !tc.data) return <ErrorMessage error={tc.error} what="teaching case" />;
   const c = tc.data;
   const lastDose = Math.max(...c.doses.map((d) => d.time.hour), 0);
+  // The route defaults to how the case's last dose was given (an oral phenytoin case stays oral).
+  const lastRoute = [...c.doses].sort((a, b) => a.time.hour - b.time.hour).at(-1)?.route;
+  const route: PracticeRoute =
+    chosenRoute ?? (isPracticeRoute(lastRoute) ? lastRoute : 'iv-infusion');
+  const absorbed = route === 'oral' || route === 'im';
   const errors = submit.error instanceof ApiError ? submit.error.body.fieldErrors : undefined;
   const fe = (k: string) => errors?.[k]?.[0];
   const toggle = <T,>(list: T[], x: T) =>
@@ -274,7 +285,8 @@ export function TeachingCaseScreen() {
               regimen: {
                 doseMg: Number(dose),
                 intervalH: Number(interval),
-                infusionH: Number(infusion),
+                infusionH: absorbed || route === 'iv-bolus' ? 0 : Number(infusion),
+                route,
                 startHour: start === '' ? lastDose + Number(interval) : Number(start),
               },
               excludeLevelIds: excluded,
@@ -306,17 +318,34 @@ export function TeachingCaseScreen() {
             )}
           </label>
           <label className="flex flex-col">
-            Infusion (h)
-            <input
-              value={infusion}
-              onChange={(e) => setInfusion(e.target.value)}
-              inputMode="decimal"
+            Route
+            <select
+              value={route}
+              onChange={(e) => setRoute(e.target.value as PracticeRoute)}
               className="rounded border p-1"
-            />
-            {fe('regimen.infusionH') && (
-              <span className="text-red-800">{fe('regimen.infusionH')}</span>
-            )}
+            >
+              {PRACTICE_ROUTES.map((r) => (
+                <option key={r} value={r}>
+                  {ROUTE_LABELS[r]}
+                </option>
+              ))}
+            </select>
+            {fe('regimen.route') && <span className="text-red-800">{fe('regimen.route')}</span>}
           </label>
+          {route === 'iv-infusion' && (
+            <label className="flex flex-col">
+              Infusion (h)
+              <input
+                value={infusion}
+                onChange={(e) => setInfusion(e.target.value)}
+                inputMode="decimal"
+                className="rounded border p-1"
+              />
+              {fe('regimen.infusionH') && (
+                <span className="text-red-800">{fe('regimen.infusionH')}</span>
+              )}
+            </label>
+          )}
           <label className="flex flex-col">
             First dose (hour from the case start)
             <input
@@ -376,8 +405,15 @@ export function TeachingCaseScreen() {
           <ul className="text-sm">
             {attempts.data.items.map((a, i, all) => (
               <li key={a.id}>
-                Attempt {all.length - i}: {a.regimen.doseMg} mg every {a.regimen.intervalH} h over{' '}
-                {a.regimen.infusionH} h — {a.score.points}/100
+                Attempt {all.length - i}: {a.regimen.doseMg} mg every {a.regimen.intervalH} h{' '}
+                {a.regimen.route === 'oral'
+                  ? 'by mouth'
+                  : a.regimen.route === 'im'
+                    ? 'IM'
+                    : a.regimen.infusionH > 0
+                      ? `over ${a.regimen.infusionH} h`
+                      : 'as an IV bolus'}{' '}
+                — {a.score.points}/100
                 {a.score.targetMet !== null && ` · target ${a.score.targetMet ? 'met' : 'not met'}`}
               </li>
             ))}
