@@ -1,3 +1,4 @@
+import { Solver } from 'odex';
 import { describe, expect, it } from 'vitest';
 import { designPeakTroughRegimen, twoLevelEstimate } from '../estimation/two-level';
 
@@ -141,6 +142,45 @@ describe('estimation/two-level', () => {
       expect(r.refusals.map((x) => x.code)).toContain(code);
       expect(r.refusals[0]!.message.length).toBeGreaterThan(20);
     }
+  });
+
+  it('levels from a general-purpose ODE solver (odex, npm) give the same k and V', () => {
+    // odex 2.0.4 (Hairer's ODEX extrapolation code) on dC/dt = R(t)/V − k·C, one segment per
+    // infusion-on / infusion-off stretch, rtol = atol = 1e-12: no closed form and none of our integrator.
+    const rate = (t: number) =>
+      doses.reduce(
+        (r, d) => r + (t >= d.time && t < d.time + d.duration ? d.amount / d.duration : 0),
+        0,
+      );
+    const edges = [...new Set(doses.flatMap((d) => [d.time, d.time + d.duration]))].sort(
+      (a, b) => a - b,
+    );
+    const at = (tEnd: number) => {
+      let c = 0;
+      let t = 0;
+      for (const e of [...edges.filter((x) => x > 0 && x < tEnd), tEnd]) {
+        const mid = (t + e) / 2;
+        const R = rate(mid);
+        const solver = new Solver(1);
+        solver.relativeTolerance = 1e-12;
+        solver.absoluteTolerance = 1e-12;
+        solver.maxSteps = 1e6;
+        c = solver.solve((_x: number, y: number[]) => [R / V - k * y[0]!], t, [c], e).y[0]!;
+        t = e;
+      }
+      return c;
+    };
+    const r = twoLevelEstimate({
+      doses,
+      levels: [
+        { time: t1, value: at(t1) },
+        { time: t2, value: at(t2) },
+      ],
+    });
+    expect(r.outcome).toBe('estimated');
+    if (r.outcome !== 'estimated') return;
+    expect(Math.abs(r.k / k - 1)).toBeLessThan(1e-6);
+    expect(Math.abs(r.V / V - 1)).toBeLessThan(1e-6);
   });
 
   it('throws clear errors for bad input (no levels, negative value, before first dose)', () => {
