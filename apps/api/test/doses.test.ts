@@ -74,6 +74,20 @@ describe('POST /api/courses/:id/doses', () => {
     expect(await db('doses').where({ course_id: c.id })).toHaveLength(0);
   });
 
+  it('when an oral dose is entered on an IV vancomycin course, then it answers 400 on the route and saves nothing', async () => {
+    // Arrange: the course's model (Goti 2018) has no absorption; oral vancomycin is not absorbed.
+    const c = await vancoCourse();
+    // Act
+    const res = await pharmacist
+      .post(`/api/courses/${c.id}/doses`)
+      .send({ amount: 125, unit: 'mg', route: 'oral', startAt: hoursAgo(3) });
+    // Assert
+    expect(res.status).toBe(400);
+    expect(Object.keys(res.body.fieldErrors)).toEqual(['route']);
+    expect(res.body.fieldErrors.route[0]).toMatch(/models IV doses only: an oral dose/);
+    expect(await db('doses').where({ course_id: c.id })).toHaveLength(0);
+  });
+
   it('when 1000 "g" is typed, then it answers 400 suggesting milligrams', async () => {
     // Arrange
     const c = await vancoCourse();

@@ -27,7 +27,7 @@ import {
   staleVersion,
   type CaseworkActor,
 } from '../patients/common';
-import { checkDose, doseEcho, type CheckedDose, type DoseInput } from './checks';
+import { checkDose, doseEcho, type CheckedDose, type DoseCheck, type DoseInput } from './checks';
 import type { ClinicalTime } from './timing';
 
 export function toDoseDto(d: DoseRecord): Dose {
@@ -97,7 +97,20 @@ export function checkDoseBatch(
   now: Date,
 ) {
   const starts: ClinicalTime[] = existing.map(doseTime);
-  return inputs.map((input) => {
+  const routes = ctx.model.definition.routes;
+  const absorbedCovered = !Array.isArray(routes) || routes.includes('oral');
+  return inputs.map((input): DoseCheck => {
+    // An oral or IM dose on a course whose model has no absorption (vancomycin IV, the
+    // aminoglycosides) cannot be simulated and does not reach the blood as modelled: refuse it.
+    if ((input.route === 'oral' || input.route === 'im') && !absorbedCovered)
+      return {
+        ok: false,
+        errors: {
+          route: [
+            `${ctx.model.name} models IV doses only: an ${input.route === 'oral' ? 'oral' : 'IM'} dose cannot be part of this course`,
+          ],
+        },
+      };
     const result = checkDose(input, {
       isTeaching: ctx.course.isTeaching,
       drug: ctx.course.drug,
