@@ -98,11 +98,10 @@ export async function computeBasis(
   engine: CourseEngine,
   now = new Date(),
 ): Promise<PlanEngineBasis> {
-  const [doses, levels, covariates] = await Promise.all([
-    dosesOfCourse(conn, ctx.course.id),
-    levelsOfCourse(conn, ctx.course.id),
-    covariatesOfPatient(conn, ctx.patient.id),
-  ]);
+  // One after another: `conn` is the plan's transaction, whose single client runs one query at a time.
+  const doses = await dosesOfCourse(conn, ctx.course.id);
+  const levels = await levelsOfCourse(conn, ctx.course.id);
+  const covariates = await covariatesOfPatient(conn, ctx.patient.id);
   const warnings: Warning[] = [];
   let fit: FitResponse | null = null;
   let method = 'population';

@@ -54,11 +54,10 @@ export async function engineInputs(
   const ctx = await requireCourse(conn, actor, courseId);
   const entry = ctx.model.definition as unknown as DrugModelEntry;
   if (!entry?.structure) throw unprocessable('The drug model has no structure the engine can use');
-  const [doseRecords, levelRecords, covariates] = await Promise.all([
-    dosesOfCourse(conn, courseId),
-    levelsOfCourse(conn, courseId),
-    covariatesOfPatient(conn, ctx.patient.id),
-  ]);
+  // One after another: `conn` may be a transaction, whose single client runs one query at a time.
+  const doseRecords = await dosesOfCourse(conn, courseId);
+  const levelRecords = await levelsOfCourse(conn, courseId);
+  const covariates = await covariatesOfPatient(conn, ctx.patient.id);
   const given = doseRecords.filter((d) => d.administrationStatus !== 'missed');
   const startTimes = given
     .map((d) => d.startAt)
