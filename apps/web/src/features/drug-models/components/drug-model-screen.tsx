@@ -196,6 +196,12 @@ function Practical({ d }: { d: ModelDefinition }) {
             </dd>
           </>
         )}
+        {p.oralLoadingPortionMg !== undefined && (
+          <>
+            <dt className="text-slate-600">Oral loading</dt>
+            <dd>in portions of up to {p.oralLoadingPortionMg} mg, 2 h apart</dd>
+          </>
+        )}
         {p.defaultInfusionH !== undefined && (
           <>
             <dt className="text-slate-600">Usual infusion time</dt>
