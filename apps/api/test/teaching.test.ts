@@ -52,6 +52,8 @@ describe('GET /api/teaching/cases', () => {
     expect(JSON.stringify(res.body)).not.toMatch(IDENTIFIER);
     expect(JSON.stringify(res.body)).not.toMatch(/trueParameters|pitfalls|levelId/);
     expect(res.body.caution).toMatch(/clinical judgement/);
+    // The vancomycin model gives doses by IV infusion only: the practice plan offers just that.
+    expect(res.body.model.routes).toEqual(['iv-infusion']);
   });
 
   it('when an admin asks, then 403 (teaching is for trainees and clinical staff)', async () => {

@@ -57,7 +57,13 @@ export const teachingCaseSchema = teachingCaseSummarySchema.extend({
   indication: z.string(),
   micMgL: z.number().nullable(),
   target: targetSchema,
-  model: z.object({ id: z.string(), version: z.number().int(), name: z.string() }),
+  model: z.object({
+    id: z.string(),
+    version: z.number().int(),
+    name: z.string(),
+    /** How the model can give doses: the practice plan offers only these. */
+    routes: z.array(z.enum(['iv-infusion', 'iv-bolus', 'oral', 'im'])),
+  }),
   /** Clock hour of the first dose, so hour 0 reads "Day 1 08:00". */
   firstDoseClockH: z.number(),
   covariates: z.array(

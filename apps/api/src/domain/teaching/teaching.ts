@@ -38,6 +38,16 @@ import { auditActor, type CaseworkActor } from '../patients/common';
 
 const HOUR_MS = 3_600_000;
 
+/** The regimen routes a model's engine routes allow (absorbed covers oral and IM). */
+function practiceRoutesOf(routes: unknown): Array<'iv-infusion' | 'iv-bolus' | 'oral' | 'im'> {
+  const r = Array.isArray(routes) ? routes : ['infusion', 'bolus', 'oral'];
+  return [
+    ...(r.includes('infusion') ? (['iv-infusion'] as const) : []),
+    ...(r.includes('bolus') ? (['iv-bolus'] as const) : []),
+    ...(r.includes('oral') ? (['oral', 'im'] as const) : []),
+  ];
+}
+
 /** "Day 2 08:00": hour 0 is the first dose, which fell at `clockH` on day 1. */
 export function relativeLabel(hour: number, clockH: number): string {
   const minutes = Math.round((hour + clockH) * 60);
@@ -109,7 +119,12 @@ export async function getTeachingCase(
     indication: ctx.course.indication,
     micMgL: ctx.course.micMgL,
     target: ctx.course.target,
-    model: { id: ctx.model.id, version: ctx.model.version, name: ctx.model.name },
+    model: {
+      id: ctx.model.id,
+      version: ctx.model.version,
+      name: ctx.model.name,
+      routes: practiceRoutesOf(ctx.model.definition.routes),
+    },
     firstDoseClockH: c.firstDoseClockH,
     covariates: covariates.map((cv) => ({
       id: cv.id,

@@ -202,8 +202,10 @@ export function TeachingCaseScreen() {
   const lastDose = Math.max(...c.doses.map((d) => d.time.hour), 0);
   // The route defaults to how the case's last dose was given (an oral phenytoin case stays oral).
   const lastRoute = [...c.doses].sort((a, b) => a.time.hour - b.time.hour).at(-1)?.route;
+  const offered = c.model.routes.length > 0 ? c.model.routes : PRACTICE_ROUTES;
   const route: PracticeRoute =
-    chosenRoute ?? (isPracticeRoute(lastRoute) ? lastRoute : 'iv-infusion');
+    chosenRoute ??
+    (isPracticeRoute(lastRoute) && offered.includes(lastRoute) ? lastRoute : offered[0]!);
   const absorbed = route === 'oral' || route === 'im';
   const errors = submit.error instanceof ApiError ? submit.error.body.fieldErrors : undefined;
   const fe = (k: string) => errors?.[k]?.[0];
@@ -324,7 +326,7 @@ export function TeachingCaseScreen() {
               onChange={(e) => setRoute(e.target.value as PracticeRoute)}
               className="rounded border p-1"
             >
-              {PRACTICE_ROUTES.map((r) => (
+              {offered.map((r) => (
                 <option key={r} value={r}>
                   {ROUTE_LABELS[r]}
                 </option>
