@@ -194,6 +194,41 @@ export function routeProblem(
   return `${entry.title} covers ${entry.routes.map((x) => ROUTE_WORDS[x]).join(' and ')} only, not ${ROUTE_WORDS[route]}`;
 }
 
+/**
+ * A planned regimen's doses from `start` (engine hours): refuses a route the model cannot give, gives an
+ * oral loading dose in the drug's portions (phenytoin), then `count` maintenance doses every interval.
+ * One builder for the casework engine and the teaching engine.
+ */
+export function plannedRegimenDoses(
+  entry: DrugModelEntry,
+  drug: string,
+  r: Regimen,
+  start: number,
+): Dose[] {
+  const problem = routeProblem(entry, r);
+  if (problem)
+    throw new AppError('validation-failed', problem, 400, {
+      fieldErrors: { 'regimen.route': [problem] },
+    });
+  const route = engineRouteOf(r);
+  const dose = (time: number, amount: number): Dose =>
+    route === 'infusion' ? { time, amount, route, duration: r.infusionH } : { time, amount, route };
+  const out: Dose[] = [];
+  let t = start;
+  const portionMg = oralLoadingPortionFor(drug, entry.practical);
+  if (r.loadingDoseMg && route === 'oral' && portionMg) {
+    // As the regimen finder and the plan give it: an oral loading dose in portions (phenytoin).
+    const portions = oralLoadingPortions(r.loadingDoseMg, portionMg);
+    for (const p of portions) out.push(dose(start + p.offsetH, p.amount));
+    t = start + maintenanceAfterPortions(portions, r.intervalH);
+  } else if (r.loadingDoseMg) {
+    out.push(dose(t, r.loadingDoseMg));
+    t += r.intervalH;
+  }
+  for (let i = 0; i < r.count; i++) out.push(dose(t + i * r.intervalH, r.doseMg));
+  return out;
+}
+
 function regimenDoses(c: EngineCase, r: Regimen): { doses: Dose[]; start: number } {
   const last = c.doses[c.doses.length - 1];
   let start: number;
@@ -208,28 +243,8 @@ function regimenDoses(c: EngineCase, r: Regimen): { doses: Dose[]; start: number
       });
     start = hoursOf(c.referenceAt, r.startAt ?? null, r.startHour ?? null);
   } else start = last ? last.time + r.intervalH : 0;
-  const problem = routeProblem(c.entry, r);
-  if (problem)
-    throw new AppError('validation-failed', problem, 400, {
-      fieldErrors: { 'regimen.route': [problem] },
-    });
-  const route = engineRouteOf(r);
-  const dose = (time: number, amount: number): Dose =>
-    route === 'infusion' ? { time, amount, route, duration: r.infusionH } : { time, amount, route };
-  const out: Dose[] = [];
-  let t = start;
-  const portionMg = oralLoadingPortionFor(c.ctx.course.drug, c.entry.practical);
-  if (r.loadingDoseMg && route === 'oral' && portionMg) {
-    // As the regimen finder and the plan give it: an oral loading dose in portions (phenytoin).
-    const portions = oralLoadingPortions(r.loadingDoseMg, portionMg);
-    for (const p of portions) out.push(dose(start + p.offsetH, p.amount));
-    t = start + maintenanceAfterPortions(portions, r.intervalH);
-  } else if (r.loadingDoseMg) {
-    out.push(dose(t, r.loadingDoseMg));
-    t += r.intervalH;
-  }
-  for (let i = 0; i < r.count; i++) out.push(dose(t + i * r.intervalH, r.doseMg));
-  return { doses: out, start };
+  const doses = plannedRegimenDoses(c.entry, c.ctx.course.drug, r, start);
+  return { doses, start };
 }
 
 export async function simulateCourse(

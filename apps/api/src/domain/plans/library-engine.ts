@@ -1,7 +1,5 @@
 import {
   fitMap,
-  maintenanceAfterPortions,
-  oralLoadingPortions,
   populationPriorFromLibrary,
   simulate,
   type Dose,
@@ -19,7 +17,7 @@ import { AppError } from '../../lib/app-error';
 import { requireCourse, type CourseContext } from '../courses/courses';
 import { computeDerived } from '../covariates/derived';
 import type { CaseworkActor } from '../patients/common';
-import { engineRouteOf, oralLoadingPortionFor, routeProblem } from '../engine/engine';
+import { plannedRegimenDoses } from '../engine/engine';
 import { CLINICAL_CAUTION } from './caution';
 
 const HOUR_MS = 3_600_000;
@@ -196,31 +194,7 @@ export function regimenDoses(inputs: EngineInputs, regimen: Regimen): Dose[] {
     regimen.startAt && inputs.originAt
       ? (Date.parse(regimen.startAt) - Date.parse(inputs.originAt)) / HOUR_MS
       : (regimen.startHour ?? (Number.isFinite(lastHour) ? lastHour + regimen.intervalH : 0));
-  const problem = routeProblem(inputs.entry, regimen);
-  if (problem)
-    throw new AppError('validation-failed', problem, 400, {
-      fieldErrors: { 'regimen.route': [problem] },
-    });
-  const route = engineRouteOf(regimen);
-  const dose = (time: number, amount: number): Dose => ({
-    time,
-    amount,
-    route,
-    ...(route === 'infusion' ? { duration: regimen.infusionH } : {}),
-  });
-  const out: Dose[] = [];
-  let offset = regimen.loadingDoseMg ? regimen.intervalH : 0;
-  const portionMg = oralLoadingPortionFor(inputs.ctx.course.drug, inputs.entry.practical);
-  if (regimen.loadingDoseMg && route === 'oral' && portionMg) {
-    // In portions, as the regimen finder, the casework engine and the plan give it (phenytoin).
-    const portions = oralLoadingPortions(regimen.loadingDoseMg, portionMg);
-    for (const p of portions) out.push(dose(start + p.offsetH, p.amount));
-    offset = maintenanceAfterPortions(portions, regimen.intervalH);
-  } else if (regimen.loadingDoseMg) out.push(dose(start, regimen.loadingDoseMg));
-  for (let i = 0; i < regimen.count; i += 1) {
-    out.push(dose(start + offset + i * regimen.intervalH, regimen.doseMg));
-  }
-  return out;
+  return plannedRegimenDoses(inputs.entry, inputs.ctx.course.drug, regimen, start);
 }
 
 /**
